@@ -1,0 +1,14 @@
+/* run.h: run the analyses a model asks for (private). The command-line program edits
+ * model->analyses from its options, then calls this one entry point. */
+#ifndef EF_RUN_H
+#define EF_RUN_H
+
+#include "system.h"
+#include "write_text.h"
+
+/* Run, in order: static loads, modal, buckling, second order. Results are handed over
+ * in *out (also after a failure, with what was completed; NULL only on EF_ENOMEM).
+ * The caller frees them. facts (may be NULL) receives the mesh size. */
+ef_status ef_run_analyses(const ef_model *m, ef_results **out, ef_run_facts *facts, ef_ctx *ctx);
+
+#endif /* EF_RUN_H */
