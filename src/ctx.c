@@ -110,6 +110,7 @@ double ef_clock(void)
 
 void ef_ctx_time_add(ef_ctx *ctx, const char *name, double seconds, ef_index count)
 {
+    ef_ctx_progress(ctx, name, count);
     for (int i = 0; i < ctx->n_phases; i++) {
         if (strcmp(ctx->phases[i].name, name) == 0) {
             ctx->phases[i].seconds += seconds;
@@ -122,6 +123,11 @@ void ef_ctx_time_add(ef_ctx *ctx, const char *name, double seconds, ef_index cou
     ctx->phases[ctx->n_phases].seconds = seconds;
     ctx->phases[ctx->n_phases].count = count;
     ctx->n_phases++;
+}
+
+void ef_ctx_progress(ef_ctx *ctx, const char *phase, ef_index count)
+{
+    if (ctx && ctx->progress) ctx->progress(ctx->progress_data, phase, count);
 }
 
 size_t ef_peak_rss(void)

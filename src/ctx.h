@@ -36,9 +36,19 @@ struct ef_ctx {
     void (*chol_free)(void *chol);  /* set with `chol`; ctx.c knows nothing of CHOLMOD */
     ef_phase phases[EF_MAX_PHASES];
     int n_phases;
-    bool quiet;          /* no progress output */
-    bool progress;       /* print progress lines on stderr (a terminal) */
+    /* progress hook: the library never prints; a program that wants progress lines
+     * sets this and is called with the phase and a count (iterations, operator
+     * applications) as work goes on */
+    void (*progress)(void *data, const char *phase, ef_index count);
+    void *progress_data;
+    /* sizes of the last system, for timings and benchmarks */
+    ef_index info_n_eq;      /* equations */
+    ef_index info_nnz_k;     /* stored entries of K (upper triangle) */
+    double info_nnz_l;       /* entries of the Cholesky factor */
 };
+
+/* Tell the progress hook (if any) about `phase` and `count`. */
+void ef_ctx_progress(ef_ctx *ctx, const char *phase, ef_index count);
 
 /* Add a message. `w` may be NULL (no position). Formats "file:line:col: level: text". */
 void ef_diag_add(ef_ctx *ctx, ef_diag_level level, const ef_where *w, const char *fmt, ...)

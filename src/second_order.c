@@ -88,6 +88,7 @@ ef_status ef_second_order_run(ef_system *sys, ef_index load, double tol, int max
         rel = fmax(fmax(rt, rr), rn);
         memcpy(u, un, (size_t)n * sizeof *u);
         memcpy(f, fn, (size_t)ne * 12 * sizeof *f);
+        ef_ctx_progress(ctx, "second-order iterations", it);
         if (!isfinite(rel)) break;
         if (rt <= tol && rr <= tol && dN <= tol * Nmax + EF_SO_FORCE_FLOOR * fscale) {
             converged = true;

@@ -292,6 +292,7 @@ ef_status ef_eig_solve(const ef_eig_problem *pb, ef_eig_result *out, ef_ctx *ctx
             }                                  /* y = B^-1 A x */
         }
         if (st != EF_OK) goto done;            /* abandon ARPACK mid-iteration */
+        if (ido != 2 && out->n_op % 25 == 0) ef_ctx_progress(ctx, "eigen iterations", out->n_op);
     }
     out->restarts = iparam[2];                 /* limit + 1 when info = 1: ARPACK counts
                                                   the final, unrestarted cycle too */

@@ -4,6 +4,7 @@
  * model and results (results_hdf5.h) and handed to the writers.
  */
 #define _POSIX_C_SOURCE 200809L
+#include "cli_util.h"
 #include "commands.h"
 
 #include "results_hdf5.h"
@@ -15,7 +16,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-enum { EXIT_OK = 0, EXIT_FAIL = 1, EXIT_USAGE = 2 };
 
 static const char *const usage_show =
     "usage: eigenframe show RESULTS.h5 [WHAT]\n"
@@ -51,25 +51,6 @@ static const char *const usage_plot =
     "Shapes are scaled so that the largest displacement is 8% of the model size; diagrams\n"
     "so that the largest value is 6%. The title block states the scale.\n"
     "Exit status: 0 success, 1 the file cannot be read or written, 2 bad input or usage.\n";
-
-static void print_diags(const ef_ctx *ctx)
-{
-    for (ef_index i = 0; i < ef_ctx_diag_count(ctx); i++)
-        fprintf(stderr, "%s\n", ef_ctx_diag_text(ctx, i));
-}
-
-static int exit_for(ef_status st)
-{
-    if (st >= EF_OK) return EXIT_OK;
-    return st == EF_EINPUT ? EXIT_USAGE : EXIT_FAIL;
-}
-
-static bool wants_help(int argc, char **argv)
-{
-    for (int i = 0; i < argc; i++)
-        if (!strcmp(argv[i], "-h") || !strcmp(argv[i], "--help")) return true;
-    return false;
-}
 
 /* ---- show ------------------------------------------------------------------------- */
 
@@ -138,33 +119,33 @@ static void print_summary(FILE *out, const char *path, const ef_results_file_inf
 
 int ef_cli_show(int argc, char **argv, ef_ctx *ctx)
 {
-    if (wants_help(argc, argv)) {
+    if (ef_cli_wants_help(argc, argv)) {
         fputs(usage_show, stdout);
-        return EXIT_OK;
+        return EF_EXIT_OK;
     }
     const char *path = NULL, *part = NULL;
     int what = SHOW_ALL;
     for (int i = 0; i < argc; i++) {
         if (argv[i][0] == '-' && argv[i][1] != '\0') {
             fprintf(stderr, "eigenframe show: unknown option '%s'\n%s", argv[i], usage_show);
-            return EXIT_USAGE;
+            return EF_EXIT_USAGE;
         } else if (!path) {
             path = argv[i];
         } else if (!part) {
             part = argv[i];
         } else {
             fprintf(stderr, "eigenframe show: unexpected argument '%s'\n%s", argv[i], usage_show);
-            return EXIT_USAGE;
+            return EF_EXIT_USAGE;
         }
     }
     if (!path) {
         fprintf(stderr, "eigenframe show: no results file given\n%s", usage_show);
-        return EXIT_USAGE;
+        return EF_EXIT_USAGE;
     }
     if (part && (what = parse_what(part)) == 0) {
         fprintf(stderr, "eigenframe show: unknown part '%s' (summary, static, second-order, "
                 "modal, buckling, vibration, all)\n", part);
-        return EXIT_USAGE;
+        return EF_EXIT_USAGE;
     }
 
     ef_model *m = NULL;
@@ -172,8 +153,8 @@ int ef_cli_show(int argc, char **argv, ef_ctx *ctx)
     ef_results_file_info info;
     ef_status st = ef_results_read_hdf5_info(path, &info, ctx);
     if (st == EF_OK) st = ef_results_read_hdf5(path, &m, &r, ctx);
-    print_diags(ctx);
-    if (st != EF_OK) return exit_for(st);
+    ef_cli_print_diags(ctx);
+    if (st != EF_OK) return ef_cli_exit_for(st);
 
     ef_run_facts facts = {r->n_mesh_nodes, r->n_elems, r->n_eq, r->n_dropped};
     FILE *out = stdout;
@@ -207,10 +188,10 @@ int ef_cli_show(int argc, char **argv, ef_ctx *ctx)
             ef_write_text_machines(out, r);
         }
     }
-    int code = EXIT_OK;
+    int code = EF_EXIT_OK;
     if (fflush(out) != 0 || ferror(out)) {
         fprintf(stderr, "eigenframe show: cannot write the report: %s\n", strerror(errno));
-        code = EXIT_FAIL;
+        code = EF_EXIT_FAIL;
     }
     ef_results_free(&r);
     ef_model_free(&m);
@@ -231,9 +212,9 @@ static int parse_count(const char *s)
 
 int ef_cli_plot(int argc, char **argv, ef_ctx *ctx)
 {
-    if (wants_help(argc, argv)) {
+    if (ef_cli_wants_help(argc, argv)) {
         fputs(usage_plot, stdout);
-        return EXIT_OK;
+        return EF_EXIT_OK;
     }
     const char *path = NULL, *out = NULL, *load = NULL, *diagram = NULL, *view = "iso";
     int n_what = 0, mode = 0;
@@ -249,14 +230,14 @@ int ef_cli_plot(int argc, char **argv, ef_ctx *ctx)
             req.what = EF_SVG_MODE, n_what++;
             if ((mode = parse_count(argv[++i])) < 0) {
                 fprintf(stderr, "eigenframe plot: --mode needs a mode number 1, 2, ..., not '%s'\n", argv[i]);
-                return EXIT_USAGE;
+                return EF_EXIT_USAGE;
             }
         } else if (!strcmp(a, "--buckling") && has2) {
             req.what = EF_SVG_BUCKLING, load = argv[++i], n_what++;
             if ((mode = parse_count(argv[++i])) < 0) {
                 fprintf(stderr, "eigenframe plot: --buckling needs LOAD and a mode number 1, 2, ..., "
                         "not '%s'\n", argv[i]);
-                return EXIT_USAGE;
+                return EF_EXIT_USAGE;
             }
         } else if (!strcmp(a, "--diagram") && has1) {
             diagram = argv[++i];
@@ -266,12 +247,12 @@ int ef_cli_plot(int argc, char **argv, ef_ctx *ctx)
             out = argv[++i];
         } else if (a[0] == '-' && a[1] != '\0') {
             fprintf(stderr, "eigenframe plot: unknown option or missing value '%s'\n%s", a, usage_plot);
-            return EXIT_USAGE;
+            return EF_EXIT_USAGE;
         } else if (!path) {
             path = a;
         } else {
             fprintf(stderr, "eigenframe plot: unexpected argument '%s'\n%s", a, usage_plot);
-            return EXIT_USAGE;
+            return EF_EXIT_USAGE;
         }
     }
     if (!path || !out || n_what != 1) {
@@ -280,20 +261,20 @@ int ef_cli_plot(int argc, char **argv, ef_ctx *ctx)
                 : n_what != 1 ? "give exactly one of --static, --second-order, --mode, --buckling"
                 : "no output file given (-o FILE.svg)",
                 usage_plot);
-        return EXIT_USAGE;
+        return EF_EXIT_USAGE;
     }
     if (!ef_svg_parse_view(view, &req.view)) {
         fprintf(stderr, "eigenframe plot: unknown view '%s' (iso, plan, xz, yz)\n", view);
-        return EXIT_USAGE;
+        return EF_EXIT_USAGE;
     }
     if (diagram) {
         if ((req.diagram = ef_svg_parse_component(diagram)) < 0) {
             fprintf(stderr, "eigenframe plot: unknown diagram '%s' (N, Vy, Vz, T, My, Mz)\n", diagram);
-            return EXIT_USAGE;
+            return EF_EXIT_USAGE;
         }
         if (req.what != EF_SVG_STATIC && req.what != EF_SVG_SECOND_ORDER) {
             fprintf(stderr, "eigenframe plot: --diagram goes with --static or --second-order\n");
-            return EXIT_USAGE;
+            return EF_EXIT_USAGE;
         }
     }
     req.mode = mode - 1;
@@ -309,9 +290,9 @@ int ef_cli_plot(int argc, char **argv, ef_ctx *ctx)
         }
     }
     if (st == EF_OK) st = ef_svg_write(m, r, &req, out, ctx);
-    print_diags(ctx);
+    ef_cli_print_diags(ctx);
     if (st == EF_OK) fprintf(stderr, "eigenframe: picture written to %s\n", out);
     ef_results_free(&r);
     ef_model_free(&m);
-    return exit_for(st);
+    return ef_cli_exit_for(st);
 }
