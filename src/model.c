@@ -29,17 +29,26 @@ static void free_cases(ef_model *m)
     free(m->combos);
 }
 
-static void free_analyses(ef_analyses *a)
+void ef_model_drop_machines(ef_model *m)
 {
-    free(a->static_loads);
-    free(a->second_order_loads);
-    free(a->walk_receivers);
-    free(a->walk_walkers);
+    ef_analyses *a = &m->analyses;
     for (ef_index i = 0; i < a->n_machines; i++) {
         free(a->machines[i].name);
         free(a->machines[i].receivers);
     }
     free(a->machines);
+    a->machines = NULL;
+    a->n_machines = 0;
+}
+
+static void free_analyses(ef_model *m)
+{
+    ef_analyses *a = &m->analyses;
+    free(a->static_loads);
+    free(a->second_order_loads);
+    free(a->walk_receivers);
+    free(a->walk_walkers);
+    ef_model_drop_machines(m);
 }
 
 void ef_model_free(ef_model **pm)
@@ -61,7 +70,7 @@ void ef_model_free(ef_model **pm)
     free_cases(m);
     free(m->mass_source.cases);
     free(m->mass_source.factors);
-    free_analyses(&m->analyses);
+    free_analyses(m);
     free(m->case_factors);
     free(m->by_name.material);
     free(m->by_name.section);

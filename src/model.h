@@ -257,6 +257,8 @@ static inline bool ef_model_load_is_combo(const ef_model *m, ef_index load)
 ef_index ef_model_find_load(const ef_model *m, const char *name);
 ef_index ef_model_find_node(const ef_model *m, const char *name);
 ef_index ef_model_find_member(const ef_model *m, const char *name);
+/* Forget the machines of analyses.machines (a command that runs something else). */
+void ef_model_drop_machines(ef_model *m);
 /* Expand a load onto the cases: factors[c] for c < n_cases (combinations nest).
  * Needs case_factors (set once the model is validated); a load case gives a unit vector. */
 void ef_model_load_factors(const ef_model *m, ef_index load, double *factors);

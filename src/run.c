@@ -4,6 +4,7 @@
 #include "buckling.h"
 #include "modal.h"
 #include "second_order.h"
+#include "vibration.h"
 #include "static.h"
 
 #include <stdlib.h>
@@ -56,6 +57,22 @@ ef_status ef_run_analyses(const ef_model *m, ef_results **out, ef_run_facts *fac
     for (ef_index i = 0; i < an->n_second_order_loads; i++) {
         st = ef_second_order_run(sys, an->second_order_loads[i], an->so_tolerance,
                                  an->so_max_iterations, an->so_chord_only, r, ctx);
+        if (st == EF_ENOMEM || st == EF_EINPUT) goto done;
+        if (st != EF_OK && failed == EF_OK) failed = st;
+    }
+    if (an->walking || an->n_machines > 0) {
+        /* enough modes to reach the vibration cut-off (the modal results grow to it) */
+        st = ef_vibration_modal_run(sys, an, an->modal_modes, r, ctx);
+        if (st == EF_ENOMEM || st == EF_EINPUT) goto done;
+        if (st != EF_OK && failed == EF_OK) failed = st;
+    }
+    if (an->walking && r->modal) {
+        st = ef_walking_run(sys, an, r, ctx);
+        if (st == EF_ENOMEM || st == EF_EINPUT) goto done;
+        if (st != EF_OK && failed == EF_OK) failed = st;
+    }
+    if (an->n_machines > 0 && r->modal) {
+        st = ef_machines_run(sys, m, r, ctx);
         if (st == EF_ENOMEM || st == EF_EINPUT) goto done;
         if (st != EF_OK && failed == EF_OK) failed = st;
     }

@@ -9,6 +9,7 @@
 #include "eigenframe.h"
 #include "cli_util.h"
 #include "commands.h"
+#include "commands_vibration.h"
 #include "model.h"
 #include "results_hdf5.h"
 #include "run.h"
@@ -34,6 +35,8 @@ static const char *const usage_main =
     "  buckling MODEL --load L  elastic critical load factors of a load\n"
     "  second-order MODEL --load L\n"
     "                           P-delta analysis of a load and the amplification\n"
+    "  walking MODEL            footfall response of a floor or platform (response factor R)\n"
+    "  machine MODEL NAME       steady-state response to a harmonic machine\n"
     "  show RESULTS.h5 [WHAT]   print the report tables back from a results file\n"
     "  plot RESULTS.h5 ...      draw a deformed, modal or buckled shape, or a force\n"
     "                           diagram, as SVG\n"
@@ -283,7 +286,7 @@ static bool apply_options(const cli_opts *o, ef_model *m)
     an->static_given = true;            /* no separate static report for these commands */
     an->n_static_loads = 0;
     an->walking = false;
-    an->n_machines = 0;
+    ef_model_drop_machines(m);
     an->modal = o->kind == CMD_MODAL;
     if (o->kind != CMD_BUCKLING && o->kind != CMD_SECOND) an->buckling = false;
     if (o->kind != CMD_SECOND) an->n_second_order_loads = 0;
@@ -464,6 +467,8 @@ int main(int argc, char **argv)
     else if (!strcmp(cmd, "modal")) code = cmd_analysis(CMD_MODAL, usage_modal, n, args, ctx);
     else if (!strcmp(cmd, "buckling")) code = cmd_analysis(CMD_BUCKLING, usage_buckling, n, args, ctx);
     else if (!strcmp(cmd, "second-order")) code = cmd_analysis(CMD_SECOND, usage_second, n, args, ctx);
+    else if (!strcmp(cmd, "walking")) code = ef_cli_walking(n, args, ctx);
+    else if (!strcmp(cmd, "machine")) code = ef_cli_machine(n, args, ctx);
     else if (!strcmp(cmd, "show")) code = ef_cli_show(n, args, ctx);
     else if (!strcmp(cmd, "plot")) code = ef_cli_plot(n, args, ctx);
     else {
