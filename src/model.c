@@ -6,6 +6,7 @@
  * O(n log n)).
  */
 #include "model.h"
+#include "vec3.h"
 
 #include <float.h>
 #include <math.h>
@@ -240,24 +241,12 @@ double ef_model_size(const ef_model *m)
     return size;
 }
 
-static double dot3(const double a[3], const double b[3])
-{
-    return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
-}
-
-static void cross3(const double a[3], const double b[3], double c[3])
-{
-    c[0] = a[1] * b[2] - a[2] * b[1];
-    c[1] = a[2] * b[0] - a[0] * b[2];
-    c[2] = a[0] * b[1] - a[1] * b[0];
-}
-
 /* sine of the angle between unit x and v (|v| > 0) */
 static double sin_angle(const double x[3], const double v[3])
 {
     double c[3];
-    cross3(x, v, c);
-    return sqrt(dot3(c, c)) / sqrt(dot3(v, v));
+    ef_cross3(x, v, c);
+    return sqrt(ef_dot3(c, c)) / sqrt(ef_dot3(v, v));
 }
 
 void ef_model_default_up(const double x[3], const double gravity_dir[3], double up[3])
@@ -276,19 +265,19 @@ bool ef_model_member_axes(const double a[3], const double b[3], const double up[
                           double roll, double scale, double axes[3][3], double *length)
 {
     double d[3] = {b[0] - a[0], b[1] - a[1], b[2] - a[2]};
-    double L = sqrt(dot3(d, d));
+    double L = sqrt(ef_dot3(d, d));
     *length = L;
     memset(axes, 0, 9 * sizeof(double));
     if (!(L > EF_ZERO_LENGTH_RTOL * scale) || !isfinite(L)) return false;
     double x[3] = {d[0] / L, d[1] / L, d[2] / L};
-    double nu = sqrt(dot3(up, up));
+    double nu = sqrt(ef_dot3(up, up));
     if (!(nu > 0.0) || !isfinite(nu) || !(sin_angle(x, up) >= EF_PARALLEL_RTOL)) return false;
-    double c = dot3(up, x);
+    double c = ef_dot3(up, x);
     double z[3] = {up[0] - c * x[0], up[1] - c * x[1], up[2] - c * x[2]};  /* up ⟂ x */
-    double nz = sqrt(dot3(z, z));
+    double nz = sqrt(ef_dot3(z, z));
     for (int i = 0; i < 3; i++) z[i] /= nz;
     double y[3];
-    cross3(z, x, y);                       /* y = z × x: (x, y, z) right-handed */
+    ef_cross3(z, x, y);                       /* y = z × x: (x, y, z) right-handed */
     /* roll: right-handed turn by θ about x: y' = y cosθ + z sinθ, z' = -y sinθ + z cosθ */
     double cr = cos(roll), sr = sin(roll);
     for (int i = 0; i < 3; i++) {

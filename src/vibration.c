@@ -10,6 +10,7 @@
  * relying on it. The program never decides pass or fail.
  */
 #include "vibration.h"
+#include "vec3.h"
 
 #include "loads.h"
 #include "modal.h"
@@ -288,15 +289,10 @@ ef_status ef_vibration_machine_alloc(const char *name, int n_hz, ef_index nr, ef
 
 /* ---- screening ------------------------------------------------------------------------- */
 
-static double dot3(const double *a, const double *b)
-{
-    return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
-}
-
 /* Vertical component of mode k at model node i. */
 static double phi_v(const ef_modal_result *mr, const ef_model *m, int k, ef_index i)
 {
-    return dot3(mr->shapes + ((size_t)k * (size_t)m->n_nodes + (size_t)i) * 6, m->gravity_dir);
+    return ef_dot3(mr->shapes + ((size_t)k * (size_t)m->n_nodes + (size_t)i) * 6, m->gravity_dir);
 }
 
 /* Mark the floor nodes (receivers and walkers, each once); caller frees. */
@@ -325,10 +321,10 @@ static ef_status screen_modes(const ef_results *r, const ef_analyses *o, double 
         double sv = 0.0, st = 0.0, vmax = 0.0, tmax = 0.0;
         for (ef_index i = 0; i < m->n_nodes; i++) {
             const double *p = mr->shapes + ((size_t)k * (size_t)m->n_nodes + (size_t)i) * 6;
-            double t2 = dot3(p, p);
+            double t2 = ef_dot3(p, p);
             tmax = fmax(tmax, sqrt(t2));
             if (!mark[i]) continue;
-            double v = dot3(p, m->gravity_dir);
+            double v = ef_dot3(p, m->gravity_dir);
             sv += v * v;
             st += t2;
             vmax = fmax(vmax, fabs(v));
@@ -431,7 +427,7 @@ static ef_status mass_weight_loads(const ef_system *sys, ef_loadset **out, ef_ct
             r->kind = EF_BLOAD_DIST;
             r->a = 0.0;
             r->b = b->length;
-            for (int i = 0; i < 3; i++) r->q[0][i] = r->q[1][i] = w * dot3(ax[i], gd);
+            for (int i = 0; i < 3; i++) r->q[0][i] = r->q[1][i] = w * ef_dot3(ax[i], gd);
         }
         for (ef_index t = src->first[k]; t < src->first[k + 1]; t++) {
             const ef_bload *sb = &src->bl[t];
@@ -443,9 +439,9 @@ static ef_status mass_weight_loads(const ef_system *sys, ef_loadset **out, ef_ct
                 double v[3];                                      /* global = axes^T q */
                 for (int c = 0; c < 3; c++)
                     v[c] = ax[0][c] * sb->q[e][0] + ax[1][c] * sb->q[e][1] + ax[2][c] * sb->q[e][2];
-                double down = fmax(dot3(v, gd), 0.0);
+                double down = fmax(ef_dot3(v, gd), 0.0);
                 if (sb->kind == EF_BLOAD_POINT && e == 1) down = 0.0;
-                for (int i = 0; i < 3; i++) r->q[e][i] = down * dot3(ax[i], gd);
+                for (int i = 0; i < 3; i++) r->q[e][i] = down * ef_dot3(ax[i], gd);
                 any += down;
             }
             if (any > 0.0) n++;
@@ -454,7 +450,7 @@ static ef_status mass_weight_loads(const ef_system *sys, ef_loadset **out, ef_ct
     ls->first[m->n_members] = n;
     for (ef_index i = 0; i < m->n_nodes; i++) {
         if (sys->dofs->eq_of_dof[6 * i] == EF_DOF_IDLE) continue;   /* attached to nothing */
-        double down = fmax(dot3(src->node_f + 6 * i, gd), 0.0);
+        double down = fmax(ef_dot3(src->node_f + 6 * i, gd), 0.0);
         for (ef_index k = 0; k < m->n_masses; k++)
             if (m->masses[k].node == i) down += m->masses[k].m * g;
         for (int c = 0; c < 3; c++) ls->node_f[6 * i + c] = down * gd[c];
@@ -893,7 +889,7 @@ static ef_status machine_one(ef_system *sys, const ef_machine *mc, const ef_resu
     }
     /* modal forces p_m = phi_m(s) . F0 */
     for (int k = 0; k < nk; k++) {
-        p[k] = dot3(mr->shapes + ((size_t)k * (size_t)m->n_nodes + (size_t)s) * 6, mc->force);
+        p[k] = ef_dot3(mr->shapes + ((size_t)k * (size_t)m->n_nodes + (size_t)s) * 6, mc->force);
         fm[k] = mr->freq[k];
     }
     for (int c = 0; c < 3; c++) {

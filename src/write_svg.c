@@ -12,6 +12,7 @@
  */
 #define _POSIX_C_SOURCE 200809L
 #include "write_svg.h"
+#include "vec3.h"
 
 #include <errno.h>
 #include <float.h>
@@ -124,21 +125,9 @@ static void utf8_cut(char *s)
 
 /* ---- geometry ------------------------------------------------------------------------ */
 
-static double dot3(const double a[3], const double b[3])
-{
-    return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
-}
-
-static void cross3(const double a[3], const double b[3], double c[3])
-{
-    c[0] = a[1] * b[2] - a[2] * b[1];
-    c[1] = a[2] * b[0] - a[0] * b[2];
-    c[2] = a[0] * b[1] - a[1] * b[0];
-}
-
 static void unit3(double a[3])
 {
-    double n = sqrt(dot3(a, a));
+    double n = sqrt(ef_dot3(a, a));
     if (n > 0.0)
         for (int i = 0; i < 3; i++) a[i] /= n;
 }
@@ -153,15 +142,15 @@ static void view_basis(const ef_model *m, ef_svg_view view, double right[3], dou
         return;
     }
     double vert[3] = {-m->gravity_dir[0], -m->gravity_dir[1], -m->gravity_dir[2]};
-    if (!(dot3(vert, vert) > 0.0)) memcpy(vert, Z, sizeof Z);
+    if (!(ef_dot3(vert, vert) > 0.0)) memcpy(vert, Z, sizeof Z);
     unit3(vert);
     /* h1: global X made horizontal (Y when X is vertical); h2 = vert x h1 */
     double h1[3], h2[3];
-    const double *base = fabs(dot3(vert, X)) < 0.9 ? X : Y;
-    double c = dot3(base, vert);
+    const double *base = fabs(ef_dot3(vert, X)) < 0.9 ? X : Y;
+    double c = ef_dot3(base, vert);
     for (int i = 0; i < 3; i++) h1[i] = base[i] - c * vert[i];
     unit3(h1);
-    cross3(vert, h1, h2);
+    ef_cross3(vert, h1, h2);
     if (view == EF_SVG_PLAN) {
         memcpy(right, h1, sizeof h1);
         memcpy(up, h2, sizeof h2);
@@ -171,9 +160,9 @@ static void view_basis(const ef_model *m, ef_svg_view view, double right[3], dou
     double f[3];
     for (int i = 0; i < 3; i++) f[i] = -(h1[i] - h2[i] + vert[i]);
     unit3(f);
-    cross3(f, vert, right);
+    ef_cross3(f, vert, right);
     unit3(right);
-    cross3(right, f, up);
+    ef_cross3(right, f, up);
     unit3(up);
 }
 
@@ -183,8 +172,8 @@ typedef struct {
 
 static void project(const proj *p, const double x[3], double out[2])
 {
-    out[0] = dot3(p->right, x);
-    out[1] = dot3(p->up, x);
+    out[0] = ef_dot3(p->right, x);
+    out[1] = ef_dot3(p->up, x);
 }
 
 /* Displaced centreline of member k: SEGMENTS + 1 points in global coordinates; u are
@@ -199,8 +188,8 @@ static void member_curve(const ef_model *m, ef_index k, const double *u, double 
     for (int e = 0; e < 2; e++) {
         const double *ue = u + 6 * b->node[e];
         for (int i = 0; i < 3; i++) {
-            t[e][i] = dot3(b->axes[i], ue);
-            r[e][i] = dot3(b->axes[i], ue + 3);
+            t[e][i] = ef_dot3(b->axes[i], ue);
+            r[e][i] = ef_dot3(b->axes[i], ue + 3);
         }
     }
     /* slopes in the x-y plane (v' = rz) and the x-z plane (w' = -ry) */
@@ -448,7 +437,7 @@ ef_status ef_svg_write(const ef_model *m, const ef_results *r, const ef_svg_requ
     if (!diagram)
         for (ef_index i = 0; i < nn; i++) {
             const double *u = pic.u + 6 * i;
-            double a = sqrt(dot3(u, u));
+            double a = sqrt(ef_dot3(u, u));
             if (a > umax) { umax = a; unode = i; }
         }
     if (umax > 0.0) s = SHAPE_FRACTION * size / umax;

@@ -6,6 +6,7 @@
  * floor with f1 >= 8 Hz; machine twice the top of the sweep), doubling from the model's
  * (or --modes) count up to EF_VIB_MAX_MODES, or until the model has no more modes.
  */
+#include "cli_util.h"
 #include "commands_vibration.h"
 
 #include "vibration.h"
@@ -16,7 +17,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-enum { EXIT_OK = 0, EXIT_FAIL = 1, EXIT_USAGE = 2 };
 
 #define EF_CLI_VIB_DEFAULT_MODES 12
 
@@ -60,25 +60,6 @@ static const char *const usage_machine =
     "\n"
     "Exit status: 0 success, 1 analysis failure, 2 bad input or usage.\n"
     "Method and sources: docs/vibration.md.\n";
-
-static void print_diags(const ef_ctx *ctx)
-{
-    for (ef_index i = 0; i < ef_ctx_diag_count(ctx); i++)
-        fprintf(stderr, "%s\n", ef_ctx_diag_text(ctx, i));
-}
-
-static int exit_for(ef_status st)
-{
-    if (st >= EF_OK) return EXIT_OK;
-    return st == EF_EINPUT ? EXIT_USAGE : EXIT_FAIL;
-}
-
-static bool wants_help(int argc, char **argv)
-{
-    for (int i = 0; i < argc; i++)
-        if (!strcmp(argv[i], "-h") || !strcmp(argv[i], "--help")) return true;
-    return false;
-}
 
 /* A whole argument as a finite number. */
 static bool parse_number(const char *opt, const char *s, double *out)
@@ -162,9 +143,9 @@ static ef_status prepare(ef_model *m, int modes, ef_system **sys, ef_results **r
 
 int ef_cli_walking(int argc, char **argv, ef_ctx *ctx)
 {
-    if (wants_help(argc, argv)) {
+    if (ef_cli_wants_help(argc, argv)) {
         fputs(usage_walking, stdout);
-        return EXIT_OK;
+        return EF_EXIT_OK;
     }
     const char *path = NULL;
     for (int i = 0; i < argc; i++) {
@@ -174,22 +155,22 @@ int ef_cli_walking(int argc, char **argv, ef_ctx *ctx)
         }
         if (path) {
             fprintf(stderr, "eigenframe: unexpected argument '%s'\n%s", argv[i], usage_walking);
-            return EXIT_USAGE;
+            return EF_EXIT_USAGE;
         }
         path = argv[i];
     }
     if (!path) {
         fprintf(stderr, "eigenframe: no model file given\n%s", usage_walking);
-        return EXIT_USAGE;
+        return EF_EXIT_USAGE;
     }
     ef_model *m = NULL;
     ef_status st = ef_model_load_yaml(path, &m, ctx);
     if (st != EF_OK) {
-        print_diags(ctx);
-        return exit_for(st);
+        ef_cli_print_diags(ctx);
+        return ef_cli_exit_for(st);
     }
     ef_analyses *a = &m->analyses;
-    int code = EXIT_USAGE, modes_opt = 0;
+    int code = EF_EXIT_USAGE, modes_opt = 0;
     bool walkers_given = false, receivers_given = false;
     /* walkers the same as the receivers in the model (its default): they follow new ones */
     bool walkers_follow = a->n_walk_walkers == a->n_walk_receivers &&
@@ -264,7 +245,7 @@ int ef_cli_walking(int argc, char **argv, ef_ctx *ctx)
         (a->n_walk_walkers == 0 || (receivers_given && !walkers_given && walkers_follow))) {
         ef_index *w = malloc((size_t)a->n_walk_receivers * sizeof *w);
         if (!w) {
-            code = EXIT_FAIL;
+            code = EF_EXIT_FAIL;
             goto done;
         }
         memcpy(w, a->walk_receivers, (size_t)a->n_walk_receivers * sizeof *w);
@@ -299,13 +280,13 @@ int ef_cli_walking(int argc, char **argv, ef_ctx *ctx)
         a->machines = machines;
         a->n_machines = n_machines;
         if (st == EF_OK) st = ef_walking_run(sys, a, r, ctx);
-        print_diags(ctx);
+        ef_cli_print_diags(ctx);
         if (st >= EF_OK) {
             ef_write_text_header(stdout, m, &facts);
             ef_write_text_modal(stdout, r);
             ef_write_text_walking(stdout, r);
         }
-        code = exit_for(st);
+        code = ef_cli_exit_for(st);
         ef_system_free(&sys, ctx);
         ef_results_free(&r);
     }
@@ -316,9 +297,9 @@ done:
 
 int ef_cli_machine(int argc, char **argv, ef_ctx *ctx)
 {
-    if (wants_help(argc, argv)) {
+    if (ef_cli_wants_help(argc, argv)) {
         fputs(usage_machine, stdout);
-        return EXIT_OK;
+        return EF_EXIT_OK;
     }
     const char *path = NULL, *name = NULL;
     for (int i = 0; i < argc; i++) {
@@ -330,21 +311,21 @@ int ef_cli_machine(int argc, char **argv, ef_ctx *ctx)
         else if (!name) name = argv[i];
         else {
             fprintf(stderr, "eigenframe: unexpected argument '%s'\n%s", argv[i], usage_machine);
-            return EXIT_USAGE;
+            return EF_EXIT_USAGE;
         }
     }
     if (!path || !name) {
         fprintf(stderr, "eigenframe: give a model file and a machine name\n%s", usage_machine);
-        return EXIT_USAGE;
+        return EF_EXIT_USAGE;
     }
     ef_model *m = NULL;
     ef_status st = ef_model_load_yaml(path, &m, ctx);
     if (st != EF_OK) {
-        print_diags(ctx);
-        return exit_for(st);
+        ef_cli_print_diags(ctx);
+        return ef_cli_exit_for(st);
     }
     ef_analyses *a = &m->analyses;
-    int code = EXIT_USAGE, modes_opt = 0;
+    int code = EF_EXIT_USAGE, modes_opt = 0;
     ef_index k = 0;
     while (k < a->n_machines && strcmp(a->machines[k].name, name) != 0) k++;
     if (k == a->n_machines) {
@@ -410,13 +391,13 @@ int ef_cli_machine(int argc, char **argv, ef_ctx *ctx)
         a->machines = all;
         a->n_machines = n_all;
         a->walking = walking;
-        print_diags(ctx);
+        ef_cli_print_diags(ctx);
         if (st >= EF_OK) {
             ef_write_text_header(stdout, m, &facts);
             ef_write_text_modal(stdout, r);
             ef_write_text_machines(stdout, r);
         }
-        code = exit_for(st);
+        code = ef_cli_exit_for(st);
         ef_system_free(&sys, ctx);
         ef_results_free(&r);
     }
