@@ -90,7 +90,7 @@ static void elem_energy(const ef_system *sys, const double *f_elem, const double
     if (el->release[0] | el->release[1]) {
         double k[144], T[144], R[144], full[12];
         bool rel;
-        ef_mesh_elem_k_local(sys->mesh, sys->m, e, k, T, R, &rel);
+        ef_mesh_elem_k_local(sys->mesh, e, k, T, R, &rel);
         for (int i = 0; i < 12; i++) {
             double s = 0.0;
             for (int j = 0; j < 12; j++) s += T[12 * i + j] * d[j];

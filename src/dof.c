@@ -31,7 +31,7 @@ ef_status ef_dofmap_build(const ef_model *m, const ef_mesh *mesh, ef_dofmap **ou
         const ef_elem *el = &mesh->elems[e];
         double k[144], T[144], R[144], kg[144];
         bool rel;
-        ef_mesh_elem_k_local(mesh, m, e, k, T, R, &rel);
+        ef_mesh_elem_k_local(mesh, e, k, T, R, &rel);
         ef_elem_to_global((const double (*)[3])m->members[el->member].axes, k, kg);
         for (int a = 0; a < 12; a++) diag[6 * el->node[a / 6] + a % 6] += fabs(kg[13 * a]);
         attached[el->node[0]] = attached[el->node[1]] = 1;

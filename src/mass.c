@@ -124,7 +124,7 @@ ef_status ef_mass_assemble(const ef_system *sys, double *M, ef_mass_info *info, 
         if (el->release[0] | el->release[1]) {
             double k[144], T[144], R[144], mc[144];
             bool rel;
-            ef_mesh_elem_k_local(mesh, m, e, k, T, R, &rel);
+            ef_mesh_elem_k_local(mesh, e, k, T, R, &rel);
             ef_elem_congruence(T, me, mc);
             memcpy(me, mc, sizeof mc);
         }

@@ -104,10 +104,9 @@ void ef_mesh_free(ef_mesh **pmesh)
     *pmesh = NULL;
 }
 
-void ef_mesh_elem_k_local(const ef_mesh *mesh, const ef_model *m, ef_index e, double k[144],
-                          double T[144], double R[144], bool *released)
+void ef_mesh_elem_k_local(const ef_mesh *mesh, ef_index e, double k[144], double T[144],
+                          double R[144], bool *released)
 {
-    (void)m;
     const ef_elem *el = &mesh->elems[e];
     ef_elem_k_local(&mesh->props[el->member], el->len, k);
     *released = (el->release[0] | el->release[1]) != 0;

@@ -40,7 +40,7 @@ void ef_mesh_member_props(const ef_model *m, ef_index member, ef_elem_props *p);
 
 /* Local stiffness of element e with its releases condensed (k, and T, R of
  * ef_elem_release_map when the element has releases; `released` tells). */
-void ef_mesh_elem_k_local(const ef_mesh *mesh, const ef_model *m, ef_index e, double k[144],
+void ef_mesh_elem_k_local(const ef_mesh *mesh, ef_index e, double k[144],
                           double T[144], double R[144], bool *released);
 
 /* Describe a mesh node for a message: "node 'A2'" or "member 'B1' at 0.25 of its length".

@@ -285,7 +285,6 @@ static ef_status post_process(ef_system *sys, const ef_spmat *M, const ef_spmat 
 
 ef_status ef_modal_run(ef_system *sys, int modes, double above_hz, ef_results *res, ef_ctx *ctx)
 {
-    const ef_model *m = sys->m;
     ef_index n = sys->dofs->n_eq;
     ef_status st;
     ef_mass_info mi;
@@ -351,7 +350,6 @@ ef_status ef_modal_run(ef_system *sys, int modes, double above_hz, ef_results *r
     res->modal = mr;
     mr = NULL;
 done:
-    (void)m;
     ef_modal_result_free(&mr);
     ef_spmat_free(&Mp);
     ef_spmat_free(&Kp);

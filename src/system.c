@@ -26,7 +26,7 @@ void ef_system_elem_k(const ef_system *sys, ef_index e, double ke[144])
 {
     double k[144], T[144], R[144];
     bool rel;
-    ef_mesh_elem_k_local(sys->mesh, sys->m, e, k, T, R, &rel);
+    ef_mesh_elem_k_local(sys->mesh, e, k, T, R, &rel);
     ef_elem_to_global(axes_of(sys, e), k, ke);
 }
 
@@ -213,7 +213,7 @@ ef_status ef_system_load_vector(const ef_system *sys, const ef_loadset *ls, doub
         if (el->release[0] | el->release[1]) {
             double k[144], T[144], R[144];
             bool rel;
-            ef_mesh_elem_k_local(sys->mesh, m, e, k, T, R, &rel);
+            ef_mesh_elem_k_local(sys->mesh, e, k, T, R, &rel);
             matTvec12(T, fef, fc);                 /* f_c = T^T f_fixed */
         } else {
             memcpy(fc, fef, sizeof fc);
@@ -279,7 +279,7 @@ void ef_system_kg(const ef_system *sys, const double *f_elem, bool chord_only, d
         if (el->release[0] | el->release[1]) {
             double k[144], T[144], R[144];
             bool rel;
-            ef_mesh_elem_k_local(sys->mesh, sys->m, e, k, T, R, &rel);
+            ef_mesh_elem_k_local(sys->mesh, e, k, T, R, &rel);
             ef_elem_congruence(T, kg, kgc);
             memcpy(kg, kgc, sizeof kg);
         }
@@ -317,7 +317,7 @@ ef_status ef_system_tangent(const ef_system *sys, const ef_loadset *ls, const do
             if (elem_fef(sys, ls, e, fef)) {
                 double k0[144], T0[144], R0[144];
                 bool rel;
-                ef_mesh_elem_k_local(sys->mesh, m, e, k0, T0, R0, &rel);
+                ef_mesh_elem_k_local(sys->mesh, e, k0, T0, R0, &rel);
                 matTvec12(T0, fef, f1);
                 matTvec12(T, fef, f2);
                 ef_elem_vec_to_global(axes_of(sys, e), f1, fg1);
