@@ -2,6 +2,7 @@
 #include "run.h"
 
 #include "buckling.h"
+#include "export_mtx.h"
 #include "modal.h"
 #include "second_order.h"
 #include "vibration.h"
@@ -9,7 +10,8 @@
 
 #include <stdlib.h>
 
-ef_status ef_run_analyses(const ef_model *m, ef_results **out, ef_run_facts *facts, ef_ctx *ctx)
+ef_status ef_run_analyses(const ef_model *m, const char *export_dir, ef_results **out,
+                          ef_run_facts *facts, ef_ctx *ctx)
 {
     ef_status st;
     ef_system *sys = NULL;
@@ -28,6 +30,7 @@ ef_status ef_run_analyses(const ef_model *m, ef_results **out, ef_run_facts *fac
         facts->n_eq = r->n_eq;
         facts->n_dropped = r->n_dropped;
     }
+    if (export_dir && (st = ef_export_system(sys, export_dir, ctx)) != EF_OK) goto done;
     const ef_analyses *an = &m->analyses;
     if (an->static_given) {
         st = ef_static_run(sys, an->static_loads, an->n_static_loads, r, ctx);

@@ -59,7 +59,9 @@ static const char *const usage_check =
     "  -o, --output FILE.h5     results file\n"                                           \
     "  --report FILE            report file\n"                                            \
     "  --timings                per-phase wall time, sizes and peak memory on stderr\n"   \
-    "  -q, --quiet              no report on standard output, no progress line\n"
+    "  -q, --quiet              no report on standard output, no progress line\n"         \
+    "  --export-matrices DIR    write K, M (and K_G of the buckling load) of the free DOFs\n" \
+    "                           in Matrix Market format, with dofmap.csv, into DIR\n"
 
 static const char *const usage_run =
     "usage: eigenframe run MODEL [options]\n"
@@ -116,6 +118,7 @@ typedef struct {
     const char *model;
     const char *output;
     const char *report;
+    const char *export_dir;
     bool timings;
     bool quiet;
     /* analysis overrides */
@@ -147,6 +150,8 @@ static bool parse_opts(int argc, char **argv, const char *usage, cli_opts *o)
             if ((ok = needs_value(i, argc, a))) o->report = argv[++i];
         } else if (!strcmp(a, "-o") || !strcmp(a, "--output")) {
             if ((ok = needs_value(i, argc, a))) o->output = argv[++i];
+        } else if (!strcmp(a, "--export-matrices")) {
+            if ((ok = needs_value(i, argc, a))) o->export_dir = argv[++i];
         } else if (!strcmp(a, "--timings")) {
             o->timings = true;
         } else if (!strcmp(a, "-q") || !strcmp(a, "--quiet")) {
@@ -405,7 +410,7 @@ static int cmd_analysis(cmd_kind kind, const char *usage, int argc, char **argv,
         code = EF_EXIT_USAGE;
         goto done;
     }
-    st = ef_run_analyses(m, &r, &facts, ctx);
+    st = ef_run_analyses(m, o.export_dir, &r, &facts, ctx);
     end_progress(ctx);
     ef_cli_print_diags(ctx);
     ef_ctx_diag_clear(ctx);

@@ -31,7 +31,7 @@ static inline frame_run frame_solve(const char *yaml)
     ef_status st = ef_model_load_yaml_string(yaml, strlen(yaml), "test.yaml", &f.m, f.ctx);
     if (st != EF_OK) frame_print_diags(f.ctx);
     assert_int_equal(st, EF_OK);
-    f.st = ef_run_analyses(f.m, &f.r, NULL, f.ctx);
+    f.st = ef_run_analyses(f.m, NULL, &f.r, NULL, f.ctx);
     return f;
 }
 
