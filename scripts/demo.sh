@@ -17,6 +17,7 @@ echo "== pictures"
 "$BIN" plot out/platform.h5 --buckling ULS-1 1 -o out/platform-buckling1.svg
 "$BIN" plot out/platform.h5 --static dead -o out/platform-dead.svg
 "$BIN" plot out/platform.h5 --second-order ULS-1 --diagram My -o out/platform-ULS-1-My.svg
+"$BIN" plot out/platform.h5 --walking -o out/platform-walking-R.svg
 echo
 echo "== the lowest natural frequencies, read back from the results file"
 "$BIN" show out/platform.h5 modal | grep -A 12 "== natural frequencies"

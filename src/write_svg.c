@@ -1,4 +1,5 @@
-/* write_svg.c: SVG 1.1 pictures of results: shapes and internal-force diagrams.
+/* write_svg.c: SVG 1.1 pictures of results: shapes, internal-force diagrams and the
+ * footfall response factor R at the receiver nodes of a floor.
  *
  * Geometry: a parallel projection onto a view plane spanned by two orthonormal vectors
  * (right, up), so projected coordinates are in model length units; they are fitted to
@@ -8,11 +9,14 @@
  * not shown). A released end rotation is not the node's: there the curve takes the slope
  * of zero curvature at that end, theta = (3 (v_b - v_a)/L - theta_other)/2 [D: the cubic
  * with v'' = 0 at the released end], and both ends released give the chord.
+ * The footfall picture draws no shape: markers at the receiver nodes coloured by R on the
+ * scale described at scale_stops (docs/results-format.md, /walking, says the same to users).
  * The file is built in memory and written atomically (temporary file + rename).
  */
 #define _POSIX_C_SOURCE 200809L
 #include "write_svg.h"
 #include "vec3.h"
+#include "vibration.h"
 
 #include <errno.h>
 #include <float.h>
@@ -224,6 +228,7 @@ static void member_curve(const ef_model *m, ef_index k, const double *u, double 
 typedef struct {
     double lo[2], hi[2];
     double k, ox, oy;            /* page = (k (x - lo0) + ox, oy - k (y - lo1)) */
+    double reserve;              /* px kept free at the right of the drawing area */
 } fit;
 
 static void fit_add(fit *f, const double p[2])
@@ -240,7 +245,7 @@ static void fit_finish(fit *f)
     double w = f->hi[0] - f->lo[0], h = f->hi[1] - f->lo[1];
     if (!(w >= 0.0)) { f->lo[0] = f->hi[0] = 0.0; w = 0.0; }
     if (!(h >= 0.0)) { f->lo[1] = f->hi[1] = 0.0; h = 0.0; }
-    double aw = PAGE_W - 2 * MARGIN, ah = DRAW_H - 2 * MARGIN;
+    double aw = PAGE_W - 2 * MARGIN - f->reserve, ah = DRAW_H - 2 * MARGIN;
     double kx = w > 0.0 ? aw / w : DBL_MAX, ky = h > 0.0 ? ah / h : DBL_MAX;
     f->k = fmin(kx, ky);
     if (f->k == DBL_MAX) f->k = 1.0;
@@ -285,11 +290,23 @@ static ef_status choose(const ef_model *m, const ef_results *r, const ef_svg_req
         ef_diag_error(ctx, NULL, "unknown internal-force component %d", q->diagram);
         return EF_EINPUT;
     }
-    if (q->diagram >= 0 && (q->what == EF_SVG_MODE || q->what == EF_SVG_BUCKLING)) {
+    if (q->diagram >= 0 && q->what != EF_SVG_STATIC && q->what != EF_SVG_SECOND_ORDER) {
         ef_diag_error(ctx, NULL, "internal-force diagrams are drawn for static and second-order loads only");
         return EF_EINPUT;
     }
     switch (q->what) {
+    case EF_SVG_WALKING: {
+        const ef_walking_result *wk = r->walking;
+        if (!wk) {
+            ef_diag_error(ctx, NULL, "the results hold no walking (footfall) response: the model's "
+                          "analyses had no walking block");
+            return EF_EINPUT;
+        }
+        snprintf(pic->what, sizeof pic->what,
+                 "Floor vibration under walking: footfall response factor R at %lld receiver node%s",
+                 (long long)wk->n_receivers, wk->n_receivers == 1 ? "" : "s");
+        return EF_OK;
+    }
     case EF_SVG_STATIC:
     case EF_SVG_SECOND_ORDER: {
         bool so = q->what == EF_SVG_SECOND_ORDER;
@@ -396,6 +413,65 @@ static void emit_title_line(sbuf *b, double y, bool bold, const char *text)
     sb_printf(b, "</text>\n");
 }
 
+/* Page height for a title block of nl lines. */
+static double page_height(int nl) { return DRAW_H + 2 * 12 + LINE_H * nl + 12; }
+
+/* XML declaration, <svg> element, <title> and the white background. */
+static void emit_head(sbuf *b, double page_h, const char *title)
+{
+    sb_printf(b, "<?xml version=\"1.0\" encoding=\"UTF-8\" standalone=\"no\"?>\n");
+    sb_printf(b,
+              "<svg xmlns=\"http://www.w3.org/2000/svg\" version=\"1.1\" width=\"%.0f\" "
+              "height=\"%.0f\" viewBox=\"0 0 %.0f %.0f\" font-family=\"DejaVu Sans, Helvetica, "
+              "Arial, sans-serif\" font-size=\"13\">\n",
+              PAGE_W, page_h, PAGE_W, page_h);
+    sb_printf(b, "<title>");
+    sb_text(b, title);
+    sb_printf(b, "</title>\n<rect x=\"0\" y=\"0\" width=\"%.0f\" height=\"%.0f\" fill=\"#ffffff\"/>\n",
+              PAGE_W, page_h);
+}
+
+/* The undeformed members in light grey and the supports; base: projected model nodes. */
+static void emit_frame(sbuf *b, const ef_model *m, const double (*base)[2], const fit *fx)
+{
+    sb_printf(b, "<g id=\"undeformed\" fill=\"none\" stroke=\"" C_FRAME
+                 "\" stroke-width=\"1.4\" stroke-linecap=\"round\">\n");
+    for (ef_index k = 0; k < m->n_members; k++) {
+        const double *pa = base[m->members[k].node[0]], *pb = base[m->members[k].node[1]];
+        sb_printf(b, "<path d=\"M%.2f %.2fL%.2f %.2f\"><title>", px(fx, pa), py(fx, pa),
+                  px(fx, pb), py(fx, pb));
+        sb_text(b, m->members[k].name);
+        sb_printf(b, "</title></path>\n");
+    }
+    sb_printf(b, "</g>\n");
+
+    /* supports: a small triangle under the node, filled when rotations are held too */
+    sb_printf(b, "<g id=\"supports\" stroke=\"" C_SUPPORT "\" stroke-width=\"1.2\">\n");
+    for (ef_index i = 0; i < m->n_supports; i++) {
+        ef_index nd = m->supports[i].node;
+        if (nd < 0 || nd >= m->n_nodes) continue;
+        double x = px(fx, base[nd]), y = py(fx, base[nd]);
+        bool fixed = (m->supports[i].held & (EF_RX | EF_RY | EF_RZ)) == (EF_RX | EF_RY | EF_RZ);
+        sb_printf(b, "<path d=\"M%.2f %.2fl-6 10h12z\" fill=\"%s\"/>\n", x, y,
+                  fixed ? C_SUPPORT : "none");
+    }
+    sb_printf(b, "</g>\n");
+}
+
+/* The title block under the drawing and the end of the document; line i is bold when
+ * bit i of `bold` is set. */
+static void emit_title_block(sbuf *b, const char (*lines)[1600], int nl, unsigned bold)
+{
+    double y0 = DRAW_H + 12;
+    sb_printf(b, "<g id=\"title-block\" fill=\"" C_TEXT "\">\n");
+    sb_printf(b, "<rect x=\"%.1f\" y=\"%.1f\" width=\"%.1f\" height=\"%.1f\" fill=\"" C_BLOCK
+                 "\" stroke=\"" C_TEXT "\" stroke-width=\"0.8\"/>\n",
+              MARGIN - 12, y0, PAGE_W - 2 * (MARGIN - 12), LINE_H * nl + 12);
+    for (int i = 0; i < nl; i++)
+        emit_title_line(b, y0 + 6 + LINE_H * (i + 0.8), (bold >> i) & 1u, lines[i]);
+    sb_printf(b, "</g>\n</svg>\n");
+}
+
 static ef_status write_atomic(const char *path, const sbuf *b, ef_ctx *ctx)
 {
     size_t tn = strlen(path) + 32;
@@ -417,12 +493,422 @@ static ef_status write_atomic(const char *path, const sbuf *b, ef_ctx *ctx)
     return ok ? EF_OK : EF_EIO;
 }
 
+/* ---- the footfall picture ---------------------------------------------------------- */
+
+#define MARKER_R 7.0             /* px, receiver marker radius */
+#define LEGEND_W 260.0           /* px kept free at the right of the drawing for the legend */
+#define BAR_W 18.0               /* px, legend bar width */
+#define LABEL_CHAR_W 6.4         /* px, mean character width at font-size 11 (estimate) */
+#define LABEL_H 12.0             /* px, label height at font-size 11 */
+#define R_SPREAD_MIN 0.1         /* the colour scale spans at least this share of its top */
+#define C_NODATA "#ffffff"       /* marker of a receiver whose R is not a number (dashed) */
+
+/* The R colour scale (ours): piecewise linear in sRGB through five equally spaced stops,
+ * pale straw (lowest R), ochre, burnt orange, brick, plum (highest R). The stops are
+ * picked so that CIE L* falls evenly, 94.0, 76.4, 57.8, 39.9, 22.2 [D: computed from the
+ * sRGB values with the D65 sRGB transfer function], so lightness alone orders the values:
+ * the order survives a greyscale print and the common colour-vision deficiencies. The
+ * scale is sequential, with no built-in threshold: no colour says "acceptable"; the
+ * user's limit is only marked on the legend. SVG's gradients interpolate in sRGB too, so
+ * the legend bar is exactly this function. */
+static const unsigned char scale_stops[5][3] = {
+    {0xf6, 0xf0, 0xb8}, {0xee, 0xb2, 0x4f}, {0xd9, 0x6c, 0x33}, {0xa9, 0x34, 0x39}, {0x5a, 0x1d, 0x4c}};
+
+/* "#rrggbb" of the scale at t (clamped to 0..1) */
+static void scale_colour(double t, char hex[8])
+{
+    t = isfinite(t) ? fmin(fmax(t, 0.0), 1.0) : 0.0;
+    double u = 4.0 * t;
+    int k = (int)u;
+    if (k > 3) k = 3;
+    u -= k;
+    int c[3];
+    for (int i = 0; i < 3; i++)
+        c[i] = (int)lround(scale_stops[k][i] + u * (scale_stops[k + 1][i] - scale_stops[k][i]));
+    snprintf(hex, 8, "#%02x%02x%02x", c[0] & 0xff, c[1] & 0xff, c[2] & 0xff);
+}
+
+/* Range [lo, hi] of the colour scale: the smallest and largest finite R, widened to take
+ * in the user's limit, then widened about its middle to at least R_SPREAD_MIN of its top
+ * (never below 0), so that nearly equal values are not drawn in far-apart colours; a
+ * single value, or equal values, thus sit in the middle of the scale. [0, 1] when there
+ * is nothing positive to show. */
+static void scale_range(const ef_walking_result *wk, double *lo, double *hi)
+{
+    double a = INFINITY, z = -INFINITY;
+    for (ef_index i = 0; i < wk->n_receivers; i++)
+        if (isfinite(wk->R[i])) {
+            a = fmin(a, wk->R[i]);
+            z = fmax(z, wk->R[i]);
+        }
+    if (wk->limit_R > 0.0 && isfinite(wk->limit_R)) {
+        a = fmin(a, wk->limit_R);
+        z = fmax(z, wk->limit_R);
+    }
+    if (!(z > 0.0)) {
+        *lo = 0.0;
+        *hi = 1.0;
+        return;
+    }
+    double want = R_SPREAD_MIN * fabs(z);
+    if (z - a < want) {
+        double mid = 0.5 * (a + z);
+        a = fmax(0.0, mid - 0.5 * want);
+        z = a + want;
+    }
+    *lo = a;
+    *hi = z;
+}
+
+/* 1, 2, 2.5 or 5 times a power of ten, at least x (x > 0) */
+static double nice_step(double x)
+{
+    double p = pow(10.0, floor(log10(x))), f = x / p;
+    return p * (f <= 1.0 ? 1.0 : f <= 2.0 ? 2.0 : f <= 2.5 ? 2.5 : f <= 5.0 ? 5.0 : 10.0);
+}
+
+/* characters (UTF-8 code points) of s */
+static size_t n_chars(const char *s)
+{
+    size_t n = 0;
+    for (const unsigned char *p = (const unsigned char *)s; *p; p++) n += (*p & 0xC0) != 0x80;
+    return n;
+}
+
+typedef struct {
+    double x0, y0, x1, y1;
+} box;
+
+static bool boxes_meet(const box *a, const box *c)
+{
+    return a->x0 < c->x1 && c->x0 < a->x1 && a->y0 < c->y1 && c->y0 < a->y1;
+}
+
+/* a marker of radius MARKER_R at (x, y) overlaps the box */
+static bool marker_meets(double x, double y, const box *a)
+{
+    double dx = fmax(fmax(a->x0 - x, 0.0), x - a->x1), dy = fmax(fmax(a->y0 - y, 0.0), y - a->y1);
+    return dx * dx + dy * dy < MARKER_R * MARKER_R;
+}
+
+/* one legend tick: value, label, 0 = main (kept, moved to avoid overlap), 1 = scale end,
+ * 2 = intermediate (dropped when its label would overlap another) */
+typedef struct {
+    double v;
+    int prio;
+    bool limit;
+    char text[160];
+} tick;
+
+static const char *weighting_words(int w)
+{
+    return w == EF_WEIGHT_WG ? "Wg (BS 6472:1992, asymptotic)" : "Wb (BS 6841 / BS 6472-1:2008, asymptotic)";
+}
+
+static const char *node_name(const ef_model *m, ef_index i)
+{
+    return i >= 0 && i < m->n_nodes ? m->nodes[i].name : "-";
+}
+
+/* drawing order of a receiver: by R, non-finite values first */
+static double sort_key(double R) { return isfinite(R) ? R : -HUGE_VAL; }
+
+/* "NODE: R = value" (R as the text report prints it) */
+static void receiver_label(const ef_model *m, const ef_walking_result *wk, ef_index i, char *s, size_t n)
+{
+    if (isfinite(wk->R[i]))
+        snprintf(s, n, "%s: R = %.4g", node_name(m, wk->receivers[i]), wk->R[i]);
+    else
+        snprintf(s, n, "%s: R = n/a", node_name(m, wk->receivers[i]));
+    utf8_cut(s);
+}
+
+static ef_status write_walking(const ef_model *m, const ef_results *r, const ef_svg_request *req,
+                               const picture *pic, const char *path, ef_ctx *ctx)
+{
+    const ef_walking_result *wk = r->walking;
+    const ef_index nn = m->n_nodes, nr = wk->n_receivers;
+    const char *F = ef_units_force_name(m->units.force), *Lu = ef_units_length_name(m->units.length);
+    const double Lsi = ef_units_length_si(m->units.length);
+    const bool has_limit = wk->limit_R > 0.0 && isfinite(wk->limit_R);
+    ef_status st = EF_OK;
+    proj P;
+    view_basis(m, req->view, P.right, P.up);
+    double (*base)[2] = malloc((size_t)EF_MAX(nn, 1) * sizeof *base);
+    ef_index *order = malloc((size_t)EF_MAX(nr, 1) * sizeof *order);
+    box *placed = malloc((size_t)EF_MAX(nr, 1) * sizeof *placed);
+    sbuf b = {NULL, 0, 0, false};
+    if (!base || !order || !placed) {
+        st = EF_ENOMEM;
+        goto done;
+    }
+    fit fx = {{INFINITY, INFINITY}, {-INFINITY, -INFINITY}, 1.0, 0.0, 0.0, LEGEND_W};
+    for (ef_index i = 0; i < nn; i++) {
+        project(&P, m->nodes[i].xyz, base[i]);
+        fit_add(&fx, base[i]);
+    }
+    fit_finish(&fx);
+
+    /* receivers drawn (node known), in ascending R so that the largest lie on top;
+       non-finite R first; insertion sort keeps file order among equals */
+    ef_index nd = 0, n_res = 0, n_tr = 0, n_above = 0, imin = EF_NONE, imax = EF_NONE;
+    for (ef_index i = 0; i < nr; i++) {
+        if (wk->method[i] == 1) n_tr++;
+        else n_res++;
+        double R = wk->R[i];
+        if (isfinite(R)) {
+            if (imin == EF_NONE || R < wk->R[imin]) imin = i;
+            if (imax == EF_NONE || R > wk->R[imax]) imax = i;
+            if (has_limit && R > wk->limit_R) n_above++;
+        }
+        if (wk->receivers[i] < 0 || wk->receivers[i] >= nn) continue;
+        ef_index j = nd++;
+        for (; j > 0 && sort_key(wk->R[order[j - 1]]) > sort_key(R); j--) order[j] = order[j - 1];
+        order[j] = i;
+    }
+    double lo, hi;
+    scale_range(wk, &lo, &hi);
+
+    /* title block text */
+    char lines[10][1600];
+    int nl = 0;
+    char mu[40], tmp[400];
+    snprintf(lines[nl++], sizeof lines[0], "eigenframe %s", EF_VERSION);
+    if (m->title)
+        snprintf(lines[nl++], sizeof lines[0], "Model: %s  (%s)", m->title, m->file ? m->file : "");
+    else
+        snprintf(lines[nl++], sizeof lines[0], "Model: %s", m->file ? m->file : "(memory)");
+    snprintf(lines[nl++], sizeof lines[0], "%s", pic->what);
+    snprintf(lines[nl++], sizeof lines[0],
+             "Assumed: damping ratio %.4g of critical; walker weight %.6g %s (%.0f N); pace "
+             "frequency %.4g-%.4g Hz",
+             wk->damping, wk->walker_weight, F, wk->walker_weight * ef_units_force_si(m->units.force),
+             wk->pace[0], wk->pace[1]);
+    if (wk->path_length > 0.0)
+        snprintf(tmp, sizeof tmp, "walking path %.6g %s (resonance build-up)", wk->path_length, Lu);
+    else
+        snprintf(tmp, sizeof tmp, "no walking path given (full resonance)");
+    snprintf(lines[nl++], sizeof lines[0], "Weighting %s; %s; %d modes summed",
+             weighting_words(wk->weighting), tmp, wk->modes_used);
+    snprintf(lines[nl++], sizeof lines[0],
+             "Governing method: resonant at %lld receiver%s, transient at %lld; R = a_w,rms / %.4g "
+             "%s/s^2 (resonant) or v_w,rms / %.4g %s/s (transient)",
+             (long long)n_res, n_res == 1 ? "" : "s", (long long)n_tr, EF_VIB_BASE_ACC_SI / Lsi, Lu,
+             EF_VIB_BASE_VEL_SI / Lsi, Lu);
+    if (imax != EF_NONE) {
+        char h[24] = "";
+        if (wk->method[imax] != 1) snprintf(h, sizeof h, ", harmonic %d", wk->harmonic[imax]);
+        snprintf(tmp, sizeof tmp, "; smallest R = %.4g at node '%s'", wk->R[imin],
+                 node_name(m, wk->receivers[imin]));
+        utf8_cut(tmp);
+        snprintf(lines[nl++], sizeof lines[0],
+                 "Largest R = %.4g at node '%s' (%s, pace %.4g Hz%s, mode %d, walker '%s')%s",
+                 wk->R[imax], node_name(m, wk->receivers[imax]),
+                 wk->method[imax] == 1 ? "transient" : "resonant", wk->pace_hz[imax], h,
+                 wk->mode[imax], node_name(m, wk->walker[imax]), imin != imax ? tmp : "");
+    } else {
+        snprintf(lines[nl++], sizeof lines[0], "No receiver has a finite R");
+    }
+    if (has_limit)
+        snprintf(lines[nl++], sizeof lines[0],
+                 "Your limit R = %.4g (marked on the legend): %lld of %lld receivers above it, "
+                 "drawn with a heavy outline; the program makes no acceptance decision",
+                 wk->limit_R, (long long)n_above, (long long)nr);
+    else
+        snprintf(lines[nl++], sizeof lines[0],
+                 "No limit on R was given (analyses.walking.limit_R); the program makes no "
+                 "acceptance decision");
+    snprintf(lines[nl++], sizeof lines[0],
+             "Colour: R on a linear scale, %.4g (pale straw) to %.4g (plum), darker as R rises; "
+             "receivers are drawn in order of R, the largest on top",
+             lo, hi);
+    snprintf(lines[nl++], sizeof lines[0],
+             "Units: force %s, length %s, mass %s; R is a ratio (no unit); view: %s; grey: members "
+             "(undeformed)",
+             F, Lu, ef_units_mass_name(&m->units, mu, sizeof mu), view_words[req->view]);
+    for (int i = 0; i < nl; i++) utf8_cut(lines[i]);
+
+    emit_head(&b, page_height(nl), pic->what);
+    emit_frame(&b, m, (const double (*)[2])base, &fx);
+
+    /* markers */
+    sb_printf(&b, "<g id=\"receivers\" stroke=\"" C_TEXT "\">\n");
+    for (ef_index q = 0; q < nd; q++) {
+        ef_index i = order[q];
+        const double *p = base[wk->receivers[i]];
+        double R = wk->R[i];
+        char hex[8] = C_NODATA, lab[320];
+        if (isfinite(R)) scale_colour((R - lo) / (hi - lo), hex);
+        bool above = has_limit && isfinite(R) && R > wk->limit_R;
+        receiver_label(m, wk, i, lab, sizeof lab);
+        sb_printf(&b, "<circle cx=\"%.2f\" cy=\"%.2f\" r=\"%.1f\" fill=\"%s\" stroke-width=\"%s\"%s><title>",
+                  px(&fx, p), py(&fx, p), MARKER_R, hex, above ? "2.6" : "1",
+                  isfinite(R) ? "" : " stroke-dasharray=\"2 2\"");
+        sb_text(&b, lab);
+        if (isfinite(R)) {
+            char h[24] = "";
+            if (wk->method[i] != 1) snprintf(h, sizeof h, ", harmonic %d", wk->harmonic[i]);
+            snprintf(tmp, sizeof tmp, " (%s, pace %.4g Hz%s, mode %d, walker %s)",
+                     wk->method[i] == 1 ? "transient" : "resonant", wk->pace_hz[i], h, wk->mode[i],
+                     node_name(m, wk->walker[i]));
+            utf8_cut(tmp);
+            sb_text(&b, tmp);
+        }
+        sb_printf(&b, "</title></circle>\n");
+    }
+    sb_printf(&b, "</g>\n");
+
+    /* labels, the largest R placed first: right of the marker, else left, above, below,
+       the first place that meets no label placed and no marker and stays clear of the
+       legend; right when none does */
+    const double bar_x = PAGE_W - MARGIN - 150.0, label_xmax = bar_x - 16.0;
+    sb_printf(&b, "<g id=\"receiver-labels\" fill=\"" C_TEXT "\" font-size=\"11\">\n");
+    ef_index n_placed = 0;
+    for (ef_index q = nd - 1; q >= 0; q--) {
+        ef_index i = order[q];
+        const double *p = base[wk->receivers[i]];
+        double x = px(&fx, p), y = py(&fx, p);
+        char lab[320];
+        receiver_label(m, wk, i, lab, sizeof lab);
+        double w = LABEL_CHAR_W * (double)n_chars(lab), g = MARKER_R + 3.0;
+        const box cand[4] = {
+            {x + g, y - 0.5 * LABEL_H, x + g + w, y + 0.5 * LABEL_H},
+            {x - g - w, y - 0.5 * LABEL_H, x - g, y + 0.5 * LABEL_H},
+            {x - 0.5 * w, y - g - LABEL_H, x + 0.5 * w, y - g},
+            {x - 0.5 * w, y + g, x + 0.5 * w, y + g + LABEL_H}};
+        int c = 0;
+        for (int k = 0; k < 4; k++) {
+            bool ok = cand[k].x1 <= label_xmax && cand[k].x0 >= 2.0;
+            for (ef_index j = 0; ok && j < n_placed; j++) ok = !boxes_meet(&cand[k], &placed[j]);
+            for (ef_index j = 0; ok && j < nd; j++) {
+                const double *o = base[wk->receivers[order[j]]];
+                ok = !marker_meets(px(&fx, o), py(&fx, o), &cand[k]);
+            }
+            if (ok) {
+                c = k;
+                break;
+            }
+        }
+        placed[n_placed++] = cand[c];
+        static const char *const anchor[4] = {"start", "end", "middle", "middle"};
+        double tx = c == 0 ? cand[c].x0 : c == 1 ? cand[c].x1 : x;
+        sb_printf(&b, "<text x=\"%.2f\" y=\"%.2f\" text-anchor=\"%s\">", tx, cand[c].y1 - 2.0, anchor[c]);
+        sb_text(&b, lab);
+        sb_printf(&b, "</text>\n");
+    }
+    sb_printf(&b, "</g>\n");
+
+    /* legend: the bar (largest at the top), ticks with values */
+    const double top = MARGIN + 50.0, bot = DRAW_H - MARGIN - 40.0, tx = bar_x + BAR_W + 10.0;
+    tick tk[32];
+    int nt = 0;
+    if (imax != EF_NONE) {
+        tk[nt] = (tick){wk->R[imax], 0, false, ""};
+        if (imin == imax)
+            snprintf(tk[nt].text, sizeof tk[nt].text, "%.4g  at %.20s", wk->R[imax],
+                     node_name(m, wk->receivers[imax]));
+        else if (wk->R[imin] == wk->R[imax])
+            snprintf(tk[nt].text, sizeof tk[nt].text, "%.4g  at every receiver", wk->R[imax]);
+        else
+            snprintf(tk[nt].text, sizeof tk[nt].text, "%.4g  largest, %.20s", wk->R[imax],
+                     node_name(m, wk->receivers[imax]));
+        nt++;
+        if (imin != imax && wk->R[imin] != wk->R[imax]) {
+            tk[nt] = (tick){wk->R[imin], 0, false, ""};
+            snprintf(tk[nt].text, sizeof tk[nt].text, "%.4g  smallest, %.20s", wk->R[imin],
+                     node_name(m, wk->receivers[imin]));
+            nt++;
+        }
+    }
+    if (has_limit) {
+        tk[nt] = (tick){wk->limit_R, 0, true, ""};
+        snprintf(tk[nt].text, sizeof tk[nt].text, "%.4g  your limit", wk->limit_R);
+        nt++;
+    }
+    tk[nt] = (tick){hi, 1, false, ""};
+    snprintf(tk[nt].text, sizeof tk[nt].text, "%.4g", hi);
+    nt++;
+    tk[nt] = (tick){lo, 1, false, ""};
+    snprintf(tk[nt].text, sizeof tk[nt].text, "%.4g", lo);
+    nt++;
+    double step = nice_step((hi - lo) / 5.0);
+    for (double v = ceil(lo / step) * step; v < hi && nt < 32; v += step) {
+        if (!(v > lo)) continue;
+        tk[nt] = (tick){v, 2, false, ""};
+        snprintf(tk[nt].text, sizeof tk[nt].text, "%.4g", v);
+        nt++;
+    }
+    for (int k = 0; k < nt; k++) utf8_cut(tk[k].text);
+    /* main ticks top to bottom (insertion sort by value, descending) */
+    for (int k = 1; k < nt && tk[k].prio == 0; k++)
+        for (int j = k; j > 0 && tk[j].v > tk[j - 1].v; j--) {
+            tick t = tk[j];
+            tk[j] = tk[j - 1];
+            tk[j - 1] = t;
+        }
+    double label_y[32];
+    bool shown[32];
+    for (int k = 0; k < nt; k++) {
+        double y = bot - (tk[k].v - lo) / (hi - lo) * (bot - top);
+        shown[k] = true;
+        label_y[k] = y;
+        if (tk[k].prio == 0) {
+            if (k > 0 && tk[k - 1].prio == 0) label_y[k] = fmax(y, label_y[k - 1] + LABEL_H + 1.0);
+            continue;
+        }
+        for (int j = 0; j < k && shown[k]; j++)
+            if (shown[j] && fabs(label_y[j] - y) < LABEL_H + 1.0) shown[k] = false;
+    }
+    sb_printf(&b, "<g id=\"legend\" fill=\"" C_TEXT "\" font-size=\"11\">\n");
+    sb_printf(&b, "<defs><linearGradient id=\"r-scale\" x1=\"0\" y1=\"1\" x2=\"0\" y2=\"0\">");
+    for (int k = 0; k < 5; k++)
+        sb_printf(&b, "<stop offset=\"%.2f\" stop-color=\"#%02x%02x%02x\"/>", 0.25 * k,
+                  scale_stops[k][0], scale_stops[k][1], scale_stops[k][2]);
+    sb_printf(&b, "</linearGradient></defs>\n");
+    sb_printf(&b, "<text x=\"%.1f\" y=\"%.1f\" font-size=\"13\" font-weight=\"bold\">R, response factor</text>\n",
+              bar_x, top - 28.0);
+    sb_printf(&b, "<text x=\"%.1f\" y=\"%.1f\">linear scale, no unit</text>\n", bar_x, top - 12.0);
+    sb_printf(&b, "<rect x=\"%.1f\" y=\"%.1f\" width=\"%.1f\" height=\"%.1f\" fill=\"url(#r-scale)\" "
+                  "stroke=\"" C_TEXT "\" stroke-width=\"0.8\"/>\n",
+              bar_x, top, BAR_W, bot - top);
+    for (int k = 0; k < nt; k++) {
+        if (!shown[k]) continue;
+        double y = bot - (tk[k].v - lo) / (hi - lo) * (bot - top);
+        if (tk[k].limit)
+            sb_printf(&b, "<path d=\"M%.1f %.2fH%.1f\" stroke=\"" C_TEXT "\" stroke-width=\"2\" "
+                          "stroke-dasharray=\"4 3\"/>\n", bar_x - 8.0, y, bar_x + BAR_W + 8.0);
+        else
+            sb_printf(&b, "<path d=\"M%.1f %.2fH%.1f\" stroke=\"" C_TEXT "\" stroke-width=\"%s\"/>\n",
+                      tk[k].prio == 0 ? bar_x - 4.0 : bar_x + BAR_W, y, bar_x + BAR_W + 5.0,
+                      tk[k].prio == 0 ? "1.2" : "0.8");
+        sb_printf(&b, "<text x=\"%.1f\" y=\"%.2f\"%s>", tx, label_y[k] + 4.0,
+                  tk[k].prio == 0 ? " font-weight=\"bold\"" : "");
+        sb_text(&b, tk[k].text);
+        sb_printf(&b, "</text>\n");
+    }
+    sb_printf(&b, "</g>\n");
+
+    emit_title_block(&b, (const char (*)[1600])lines, nl, 1u | 4u);
+    if (b.oom) {
+        st = EF_ENOMEM;
+        goto done;
+    }
+    st = write_atomic(path, &b, ctx);
+done:
+    free(base);
+    free(order);
+    free(placed);
+    free(b.s);
+    return st;
+}
+
 ef_status ef_svg_write(const ef_model *m, const ef_results *r, const ef_svg_request *req,
                        const char *path, ef_ctx *ctx)
 {
     picture pic;
     ef_status st = choose(m, r, req, &pic, ctx);
     if (st != EF_OK) return st;
+    if (req->what == EF_SVG_WALKING) return write_walking(m, r, req, &pic, path, ctx);
     const bool diagram = req->diagram >= 0;
     const ef_index nn = m->n_nodes, nm = m->n_members;
     const char *F = ef_units_force_name(m->units.force), *Lu = ef_units_length_name(m->units.length);
@@ -457,7 +943,7 @@ ef_status ef_svg_write(const ef_model *m, const ef_results *r, const ef_svg_requ
         st = EF_ENOMEM;
         goto done;
     }
-    fit fx = {{INFINITY, INFINITY}, {-INFINITY, -INFINITY}, 1.0, 0.0, 0.0};
+    fit fx = {{INFINITY, INFINITY}, {-INFINITY, -INFINITY}, 1.0, 0.0, 0.0, 0.0};
     for (ef_index i = 0; i < nn; i++) {
         project(&P, m->nodes[i].xyz, base[i]);
         fit_add(&fx, base[i]);
@@ -556,41 +1042,8 @@ ef_status ef_svg_write(const ef_model *m, const ef_results *r, const ef_svg_requ
              ef_units_mass_name(&m->units, mu, sizeof mu), view_words[req->view]);
 
     for (int i = 0; i < nl; i++) utf8_cut(lines[i]);
-    double page_h = DRAW_H + 2 * 12 + LINE_H * nl + 12;
-    sb_printf(&b, "<?xml version=\"1.0\" encoding=\"UTF-8\" standalone=\"no\"?>\n");
-    sb_printf(&b,
-              "<svg xmlns=\"http://www.w3.org/2000/svg\" version=\"1.1\" width=\"%.0f\" "
-              "height=\"%.0f\" viewBox=\"0 0 %.0f %.0f\" font-family=\"DejaVu Sans, Helvetica, "
-              "Arial, sans-serif\" font-size=\"13\">\n",
-              PAGE_W, page_h, PAGE_W, page_h);
-    sb_printf(&b, "<title>");
-    sb_text(&b, pic.what);
-    sb_printf(&b, "</title>\n<rect x=\"0\" y=\"0\" width=\"%.0f\" height=\"%.0f\" fill=\"#ffffff\"/>\n",
-              PAGE_W, page_h);
-
-    /* undeformed frame */
-    sb_printf(&b, "<g id=\"undeformed\" fill=\"none\" stroke=\"" C_FRAME
-                  "\" stroke-width=\"1.4\" stroke-linecap=\"round\">\n");
-    for (ef_index k = 0; k < nm; k++) {
-        const double *pa = base[m->members[k].node[0]], *pb = base[m->members[k].node[1]];
-        sb_printf(&b, "<path d=\"M%.2f %.2fL%.2f %.2f\"><title>", px(&fx, pa), py(&fx, pa),
-                  px(&fx, pb), py(&fx, pb));
-        sb_text(&b, m->members[k].name);
-        sb_printf(&b, "</title></path>\n");
-    }
-    sb_printf(&b, "</g>\n");
-
-    /* supports: a small triangle under the node, filled when rotations are held too */
-    sb_printf(&b, "<g id=\"supports\" stroke=\"" C_SUPPORT "\" stroke-width=\"1.2\">\n");
-    for (ef_index i = 0; i < m->n_supports; i++) {
-        ef_index nd = m->supports[i].node;
-        if (nd < 0 || nd >= nn) continue;
-        double x = px(&fx, base[nd]), y = py(&fx, base[nd]);
-        bool fixed = (m->supports[i].held & (EF_RX | EF_RY | EF_RZ)) == (EF_RX | EF_RY | EF_RZ);
-        sb_printf(&b, "<path d=\"M%.2f %.2fl-6 10h12z\" fill=\"%s\"/>\n", x, y,
-                  fixed ? C_SUPPORT : "none");
-    }
-    sb_printf(&b, "</g>\n");
+    emit_head(&b, page_height(nl), pic.what);
+    emit_frame(&b, m, (const double (*)[2])base, &fx);
 
     if (!diagram) {
         sb_printf(&b, "<g id=\"shape\" fill=\"none\" stroke=\"" C_SHAPE
@@ -679,14 +1132,7 @@ ef_status ef_svg_write(const ef_model *m, const ef_results *r, const ef_svg_requ
         sb_printf(&b, "</g>\n");
     }
 
-    /* title block */
-    double y0 = DRAW_H + 12;
-    sb_printf(&b, "<g id=\"title-block\" fill=\"" C_TEXT "\">\n");
-    sb_printf(&b, "<rect x=\"%.1f\" y=\"%.1f\" width=\"%.1f\" height=\"%.1f\" fill=\"" C_BLOCK
-                  "\" stroke=\"" C_TEXT "\" stroke-width=\"0.8\"/>\n",
-              MARGIN - 12, y0, PAGE_W - 2 * (MARGIN - 12), LINE_H * nl + 12);
-    for (int i = 0; i < nl; i++) emit_title_line(&b, y0 + 6 + LINE_H * (i + 0.8), i == 0 || i == 2, lines[i]);
-    sb_printf(&b, "</g>\n</svg>\n");
+    emit_title_block(&b, (const char (*)[1600])lines, nl, 1u | 4u);
     if (b.oom) {
         st = EF_ENOMEM;
         goto done;

@@ -1,7 +1,8 @@
 /* cmd_results.c: the commands that work from a results file alone: `show` prints the
- * report again (through the same text writers as `run`), `plot` draws a shape or an
- * internal-force diagram as SVG. No numerics here: the file is read back into a stub
- * model and results (results_hdf5.h) and handed to the writers.
+ * report again (through the same text writers as `run`), `plot` draws a shape, an
+ * internal-force diagram or the footfall response factor over the floor as SVG. No
+ * numerics here: the file is read back into a stub model and results (results_hdf5.h)
+ * and handed to the writers.
  */
 #define _POSIX_C_SOURCE 200809L
 #include "cli_util.h"
@@ -41,15 +42,22 @@ static const char *const usage_plot =
     "  --second-order LOAD    deformed shape under a second-order (P-delta) load\n"
     "  --mode K               natural vibration mode K (1 = lowest frequency)\n"
     "  --buckling LOAD K      buckling mode K of LOAD (1 = lowest factor)\n"
+    "  --walking              footfall response factor R at each receiver node (the file\n"
+    "                         must hold a walking analysis: analyses.walking)\n"
     "\n"
     "options:\n"
     "  --diagram C            with --static or --second-order: the internal-force diagram\n"
     "                         of component C (N, Vy, Vz, T, My, Mz) instead of the shape\n"
-    "  --view V               iso (default), plan (looking along gravity), xz, yz\n"
+    "  --view V               iso, plan (looking along gravity), xz, yz; default iso, and\n"
+    "                         plan with --walking\n"
     "  -o, --output FILE      the SVG file to write (required)\n"
     "\n"
     "Shapes are scaled so that the largest displacement is 8% of the model size; diagrams\n"
     "so that the largest value is 6%. The title block states the scale.\n"
+    "--walking draws each receiver as a marker coloured by R on a linear scale from pale\n"
+    "straw (lowest) to plum (highest), labelled with its node name and R, and a legend bar\n"
+    "with the values, the smallest and largest R and the limit_R you gave; receivers above\n"
+    "your limit have a heavy outline. The program makes no acceptance decision.\n"
     "Exit status: 0 success, 1 the file cannot be read or written, 2 bad input or usage.\n";
 
 /* ---- show ------------------------------------------------------------------------- */
@@ -216,7 +224,7 @@ int ef_cli_plot(int argc, char **argv, ef_ctx *ctx)
         fputs(usage_plot, stdout);
         return EF_EXIT_OK;
     }
-    const char *path = NULL, *out = NULL, *load = NULL, *diagram = NULL, *view = "iso";
+    const char *path = NULL, *out = NULL, *load = NULL, *diagram = NULL, *view = NULL;
     int n_what = 0, mode = 0;
     ef_svg_request req = {EF_SVG_STATIC, EF_NONE, 0, -1, EF_SVG_ISO};
     for (int i = 0; i < argc; i++) {
@@ -239,6 +247,8 @@ int ef_cli_plot(int argc, char **argv, ef_ctx *ctx)
                         "not '%s'\n", argv[i]);
                 return EF_EXIT_USAGE;
             }
+        } else if (!strcmp(a, "--walking")) {
+            req.what = EF_SVG_WALKING, n_what++;
         } else if (!strcmp(a, "--diagram") && has1) {
             diagram = argv[++i];
         } else if (!strcmp(a, "--view") && has1) {
@@ -258,11 +268,13 @@ int ef_cli_plot(int argc, char **argv, ef_ctx *ctx)
     if (!path || !out || n_what != 1) {
         fprintf(stderr, "eigenframe plot: %s\n%s",
                 !path ? "no results file given"
-                : n_what != 1 ? "give exactly one of --static, --second-order, --mode, --buckling"
+                : n_what != 1 ? "give exactly one of --static, --second-order, --mode, --buckling, "
+                                "--walking"
                 : "no output file given (-o FILE.svg)",
                 usage_plot);
         return EF_EXIT_USAGE;
     }
+    if (!view) view = req.what == EF_SVG_WALKING ? "plan" : "iso";
     if (!ef_svg_parse_view(view, &req.view)) {
         fprintf(stderr, "eigenframe plot: unknown view '%s' (iso, plan, xz, yz)\n", view);
         return EF_EXIT_USAGE;
@@ -288,6 +300,11 @@ int ef_cli_plot(int argc, char **argv, ef_ctx *ctx)
             ef_diag_error(ctx, NULL, "%s: the model has no load case or combination '%s'", path, load);
             st = EF_EINPUT;
         }
+    }
+    if (st == EF_OK && req.what == EF_SVG_WALKING && !r->walking) {
+        ef_diag_error(ctx, NULL, "%s: the file holds no walking (footfall) results, no /walking "
+                      "group: run a model whose analyses include walking", path);
+        st = EF_EINPUT;
     }
     if (st == EF_OK) st = ef_svg_write(m, r, &req, out, ctx);
     ef_cli_print_diags(ctx);

@@ -12,7 +12,7 @@
 /* eigenframe show RESULTS.h5 [summary|static|second-order|modal|buckling|all] */
 int ef_cli_show(int argc, char **argv, ef_ctx *ctx);
 /* eigenframe plot RESULTS.h5 (--mode K | --buckling LOAD K | --static LOAD |
- *                 --second-order LOAD) [--diagram C] [--view V] -o FILE.svg */
+ *                 --second-order LOAD | --walking) [--diagram C] [--view V] -o FILE.svg */
 int ef_cli_plot(int argc, char **argv, ef_ctx *ctx);
 
 #endif /* EF_CLI_COMMANDS_H */
