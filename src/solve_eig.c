@@ -135,14 +135,15 @@ static ef_status check_problem(const ef_eig_problem *pb, ef_eig_result *out, ef_
                       pb->max_restarts);
         st = EF_EINPUT;
     }
-    if (pb->mode == EF_EIG_SHIFT_INVERT) {
+    if (pb->mode == EF_EIG_SHIFT_INVERT || pb->mode == EF_EIG_BUCKLING) {
         if (!pb->solve || !pb->apply_b) {
             ef_diag_error(ctx, NULL,
                           "eigen solver: shift-invert needs the solve and apply_b operators");
             st = EF_EINPUT;
         }
-        if (!isfinite(pb->sigma)) {
-            ef_diag_error(ctx, NULL, "eigen solver: the shift is not a finite number");
+        if (!isfinite(pb->sigma) || (pb->mode == EF_EIG_BUCKLING && pb->sigma == 0.0)) {
+            ef_diag_error(ctx, NULL, "eigen solver: the shift is not a finite number%s",
+                          pb->mode == EF_EIG_BUCKLING ? " other than zero" : "");
             st = EF_EINPUT;
         }
     } else if (pb->mode == EF_EIG_INVERSE_B) {
@@ -200,7 +201,7 @@ static int window_start(const double *val, const int *order, int count, int keep
 {
     int lo = 0, hi = count;                    /* [lo, hi) */
     while (hi - lo > keep) {
-        if (pb->mode == EF_EIG_SHIFT_INVERT) {  /* drop the end farther from sigma */
+        if (pb->mode != EF_EIG_INVERSE_B) {    /* drop the end farther from sigma */
             double dlo = fabs(val[order[lo]] - pb->sigma);
             double dhi = fabs(val[order[hi - 1]] - pb->sigma);
             if (dlo > dhi) lo++; else hi--;
@@ -234,8 +235,13 @@ ef_status ef_eig_solve(const ef_eig_problem *pb, ef_eig_result *out, ef_ctx *ctx
     const a_int nn = (a_int)n, nev = pb->nev, ncv = out->ncv;
     const a_int lworkl = ncv * (ncv + 8);
     const size_t un = (size_t)n, uncv = (size_t)ncv;
-    const bool shift_invert = pb->mode == EF_EIG_SHIFT_INVERT;
-    const char *which = shift_invert ? "LM" : pb->which == EF_EIG_LARGEST ? "LA" : "SA";
+    /* modes 3 and 4 apply their operator alike: y = (solve)(B x) */
+    const bool shift_invert = pb->mode == EF_EIG_SHIFT_INVERT || pb->mode == EF_EIG_BUCKLING;
+    /* mode 4's Ritz values nu = lambda / (lambda - sigma): the largest belong to the lambda
+     * just above a positive sigma */
+    const char *which = pb->mode == EF_EIG_SHIFT_INVERT ? "LM"
+                        : pb->mode == EF_EIG_BUCKLING  ? "LA"
+                        : pb->which == EF_EIG_LARGEST  ? "LA" : "SA";
 
     workd = malloc(3 * un * sizeof *workd);
     workl = malloc((size_t)lworkl * sizeof *workl);
@@ -261,7 +267,7 @@ ef_status ef_eig_solve(const ef_eig_problem *pb, ef_eig_result *out, ef_ctx *ctx
     const int limit = pb->max_restarts ? pb->max_restarts : EIG_MAX_RESTARTS_DEFAULT;
     iparam[2] = limit;
     iparam[3] = 1;                             /* block size: the only one implemented */
-    iparam[6] = shift_invert ? 3 : 2;
+    iparam[6] = pb->mode == EF_EIG_SHIFT_INVERT ? 3 : pb->mode == EF_EIG_BUCKLING ? 4 : 2;
 
     for (;;) {
         dsaupd_c(&ido, "G", nn, which, nev, out->tol, resid, ncv, v, nn, iparam, ipntr,

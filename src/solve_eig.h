@@ -12,6 +12,10 @@
  *   EF_EIG_INVERSE_B (ARPACK mode 2): `solve` applies B^{-1}; `apply_a` applies A;
  *     `apply_b` applies B. Finds the algebraically largest (EF_EIG_LARGEST) or smallest
  *     (EF_EIG_SMALLEST) lambda; vectors are B-orthonormal.
+ *   EF_EIG_BUCKLING (ARPACK mode 4, "buckling mode"): B x = lambda A x with B positive
+ *     definite; `solve` applies (B - sigma A)^{-1}, `apply_b` applies B. Finds the lambda
+ *     just above sigma (0 < sigma below the wanted ones), returned as lambda; vectors are
+ *     B-orthonormal. For critical load factors B = K and A = -K_G.
  */
 #ifndef EF_SOLVE_EIG_H
 #define EF_SOLVE_EIG_H
@@ -21,7 +25,7 @@
 /* y = Op x, both of length n. Return EF_OK or a failure status (stops the iteration). */
 typedef ef_status (*ef_eig_op)(void *data, const double *x, double *y);
 
-typedef enum { EF_EIG_SHIFT_INVERT, EF_EIG_INVERSE_B } ef_eig_mode;
+typedef enum { EF_EIG_SHIFT_INVERT, EF_EIG_INVERSE_B, EF_EIG_BUCKLING } ef_eig_mode;
 typedef enum { EF_EIG_NEAREST, EF_EIG_LARGEST, EF_EIG_SMALLEST } ef_eig_which;
 
 typedef struct {

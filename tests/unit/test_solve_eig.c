@@ -478,6 +478,61 @@ static void test_eig_inverse_b_uniform_column_gives_euler_load(void **state)
     pencil_free(&p);
 }
 
+/* (4c) The shifted buckling mode (ARPACK mode 4): B x = alpha A x with OP = (B - sigma A)^-1 B
+ * and 0 < sigma < alpha_1, on the uniform column of (4b): alpha_j = EI t_j / (P h^2), the
+ * inverses of the mu_j above (same derivation). The values come back as alpha, ascending,
+ * with B x = alpha A x to rounding. */
+static void test_eig_buckling_mode_finds_factors_above_the_shift(void **state)
+{
+    ef_ctx *ctx = *state;
+    double P_seg[COL_N + 1];
+    for (int s = 0; s <= COL_N; s++) P_seg[s] = COL_P;
+    pencil p;
+    build_column(&p, P_seg);
+    const double h = COL_L / (COL_N + 1);
+    double alpha[4];
+    for (int j = 1; j <= 4; j++) {
+        double s = sin(j * PI / (2.0 * (COL_N + 1)));
+        alpha[j - 1] = COL_EI * 4.0 * s * s / (COL_P * h * h);
+    }
+    double sigma = 0.6 * alpha[0];
+    size_t len = (size_t)(p.kd + 1) * (size_t)p.n;
+    for (size_t k = 0; k < len; k++) p.f[k] = p.b[k] - sigma * p.a[k];     /* B - sigma A */
+    assert_int_equal(LAPACKE_dpbtrf(LAPACK_COL_MAJOR, 'U', p.n, p.kd, p.f, p.kd + 1), 0);
+    ef_eig_problem pb = {0};
+    pb.n = p.n;
+    pb.nev = 3;
+    pb.mode = EF_EIG_BUCKLING;
+    pb.sigma = sigma;
+    pb.solve = op_solve;
+    pb.apply_b = op_b;
+    pb.data = &p;
+    ef_eig_result r;
+    assert_int_equal(ef_eig_solve(&pb, &r, ctx), EF_OK);
+    assert_int_equal(r.nconv, 3);
+    double *bx = malloc((size_t)p.n * sizeof *bx), *ax = malloc((size_t)p.n * sizeof *ax);
+    for (int j = 0; j < 3; j++) {
+        assert_rel_close(r.values[j], alpha[j], 1e-10);
+        const double *x = r.vectors + (size_t)j * (size_t)p.n;
+        band_mv(p.b, p.kd, p.n, x, bx);
+        band_mv(p.a, p.kd, p.n, x, ax);
+        double rn = 0.0, bn = 0.0;
+        for (int i = 0; i < p.n; i++) {
+            rn += (bx[i] - r.values[j] * ax[i]) * (bx[i] - r.values[j] * ax[i]);
+            bn += bx[i] * bx[i];
+        }
+        assert_true(sqrt(rn / bn) < 1e-8);
+    }
+    /* a zero shift is refused: mode 4's operator would be the identity */
+    pb.sigma = 0.0;
+    ef_eig_result_free(&r);
+    assert_int_equal(ef_eig_solve(&pb, &r, ctx), EF_EINPUT);
+    ef_eig_result_free(&r);
+    free(bx);
+    free(ax);
+    pencil_free(&p);
+}
+
 /* (5) One restart with the smallest possible basis cannot converge 6 modes: EF_ENOCONV,
  * a message, fewer than 6 pairs reported, and the reported ones are true eigenpairs. */
 static void test_eig_restart_limit_reports_partial_convergence(void **state)
@@ -670,6 +725,8 @@ int main(void)
         cmocka_unit_test_setup_teardown(test_eig_two_identical_chains_give_each_value_twice,
                                         setup_ctx, teardown_ctx),
         cmocka_unit_test_setup_teardown(test_eig_inverse_b_indefinite_column_matches_dense,
+                                        setup_ctx, teardown_ctx),
+        cmocka_unit_test_setup_teardown(test_eig_buckling_mode_finds_factors_above_the_shift,
                                         setup_ctx, teardown_ctx),
         cmocka_unit_test_setup_teardown(test_eig_inverse_b_uniform_column_gives_euler_load,
                                         setup_ctx, teardown_ctx),
