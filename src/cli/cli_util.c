@@ -52,3 +52,11 @@ bool ef_cli_parse_int(const char *option, const char *s, int *out)
     *out = (int)v;
     return true;
 }
+
+ef_status ef_cli_load_model(const char *path, ef_model **m, ef_ctx *ctx)
+{
+    double t0 = ef_clock();
+    ef_status st = ef_model_load_yaml(path, m, ctx);
+    ef_ctx_time_add(ctx, "read and validate", ef_clock() - t0, 1);
+    return st == EF_EIO ? EF_EINPUT : st;
+}

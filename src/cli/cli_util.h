@@ -4,7 +4,7 @@
 #ifndef EF_CLI_UTIL_H
 #define EF_CLI_UTIL_H
 
-#include "ctx.h"
+#include "model.h"
 
 /* Exit status of every command. */
 enum { EF_EXIT_OK = 0, EF_EXIT_FAIL = 1, EF_EXIT_USAGE = 2 };
@@ -18,5 +18,9 @@ bool ef_cli_wants_help(int argc, char **argv);
 /* Parse a whole-string number; false (and a message naming `option`) otherwise. */
 bool ef_cli_parse_double(const char *option, const char *s, double *out);
 bool ef_cli_parse_int(const char *option, const char *s, int *out);
+
+/* Read and validate a model, timed as "read and validate". A file that cannot be read is
+ * bad input like a file with errors: EF_EINPUT either way (exit status 2). */
+ef_status ef_cli_load_model(const char *path, ef_model **m, ef_ctx *ctx);
 
 #endif /* EF_CLI_UTIL_H */

@@ -164,7 +164,7 @@ int ef_cli_walking(int argc, char **argv, ef_ctx *ctx)
         return EF_EXIT_USAGE;
     }
     ef_model *m = NULL;
-    ef_status st = ef_model_load_yaml(path, &m, ctx);
+    ef_status st = ef_cli_load_model(path, &m, ctx);
     if (st != EF_OK) {
         ef_cli_print_diags(ctx);
         return ef_cli_exit_for(st);
@@ -319,7 +319,7 @@ int ef_cli_machine(int argc, char **argv, ef_ctx *ctx)
         return EF_EXIT_USAGE;
     }
     ef_model *m = NULL;
-    ef_status st = ef_model_load_yaml(path, &m, ctx);
+    ef_status st = ef_cli_load_model(path, &m, ctx);
     if (st != EF_OK) {
         ef_cli_print_diags(ctx);
         return ef_cli_exit_for(st);

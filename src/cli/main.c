@@ -231,14 +231,6 @@ static void end_progress(ef_ctx *ctx)
     ctx->progress = NULL;
 }
 
-static ef_status load_model(const char *path, ef_model **m, ef_ctx *ctx)
-{
-    double t0 = ef_clock();
-    ef_status st = ef_model_load_yaml(path, m, ctx);
-    ef_ctx_time_add(ctx, "read and validate", ef_clock() - t0, 1);
-    return st;
-}
-
 static int cmd_check(int argc, char **argv, ef_ctx *ctx)
 {
     if (ef_cli_wants_help(argc, argv)) { fputs(usage_check, stdout); return EF_EXIT_OK; }
@@ -248,7 +240,7 @@ static int cmd_check(int argc, char **argv, ef_ctx *ctx)
     }
     const char *path = argv[0];
     ef_model *m = NULL;
-    ef_status st = load_model(path, &m, ctx);
+    ef_status st = ef_cli_load_model(path, &m, ctx);
     ef_cli_print_diags(ctx);
     if (st != EF_OK) return ef_cli_exit_for(st);
     ef_ctx_diag_clear(ctx);
@@ -400,7 +392,7 @@ static int cmd_analysis(cmd_kind kind, const char *usage, int argc, char **argv,
     ef_run_facts facts = {0, 0, 0, 0};
     int code = EF_EXIT_OK;
     char *report_path = NULL, *h5_path = NULL;
-    ef_status st = load_model(o.model, &m, ctx);
+    ef_status st = ef_cli_load_model(o.model, &m, ctx);
     if (st != EF_OK) {
         end_progress(ctx);
         ef_cli_print_diags(ctx);
