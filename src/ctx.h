@@ -45,6 +45,7 @@ struct ef_ctx {
     ef_index info_n_eq;      /* equations */
     ef_index info_nnz_k;     /* stored entries of K (upper triangle) */
     double info_nnz_l;       /* entries of the Cholesky factor */
+    const char *info_ordering;  /* fill-reducing ordering chosen ("AMD", "METIS", ...) */
 };
 
 /* Tell the progress hook (if any) about `phase` and `count`. */

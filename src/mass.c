@@ -131,8 +131,19 @@ ef_status ef_mass_assemble(const ef_system *sys, double *M, ef_mass_info *info, 
         ef_elem_to_global((const double (*)[3])m->members[el->member].axes, me, mg);
         ef_asm_add_elem(sys->asmb, e, mg, M);
     }
-    /* node masses: extra masses, and node loads along gravity / g */
+    /* node masses: extra masses (gathered per node in one pass: m, Jx, Jy, Jz), and node
+     * loads along gravity / g */
     double g = ef_units_g(&m->units);
+    double *extra = calloc((size_t)EF_MAX(m->n_nodes, 1) * 4, sizeof *extra);
+    if (!extra) {
+        ef_loadset_free(&ls);
+        return EF_ENOMEM;
+    }
+    for (ef_index k = 0; k < m->n_masses; k++) {
+        double *e = extra + 4 * m->masses[k].node;
+        e[0] += m->masses[k].m;
+        for (int c = 0; c < 3; c++) e[1 + c] += m->masses[k].J[c];
+    }
     for (ef_index i = 0; i < m->n_nodes; i++) {
         double node_m = 0.0, J[3] = {0.0, 0.0, 0.0};
         if (ls) {
@@ -140,11 +151,8 @@ ef_status ef_mass_assemble(const ef_system *sys, double *M, ef_mass_info *info, 
             for (int c = 0; c < 3; c++) down += ls->node_f[6 * i + c] * m->gravity_dir[c];
             node_m += fmax(down, 0.0) / g;
         }
-        for (ef_index k = 0; k < m->n_masses; k++)
-            if (m->masses[k].node == i) {
-                node_m += m->masses[k].m;
-                for (int c = 0; c < 3; c++) J[c] += m->masses[k].J[c];
-            }
+        node_m += extra[4 * i];
+        for (int c = 0; c < 3; c++) J[c] += extra[4 * i + 1 + c];
         if (node_m == 0.0 && J[0] == 0.0 && J[1] == 0.0 && J[2] == 0.0) continue;
         sum_add(&sum, node_m, m->nodes[i].xyz);
         for (int c = 0; c < 6; c++) {
@@ -152,6 +160,7 @@ ef_status ef_mass_assemble(const ef_system *sys, double *M, ef_mass_info *info, 
             if (eq >= 0) M[ef_asm_diag(sys->asmb, eq)] += c < 3 ? node_m : J[c - 3];
         }
     }
+    free(extra);
     ef_loadset_free(&ls);
     info->total = sum.m;
     for (int c = 0; c < 3; c++) info->centre[c] = sum.m > 0 ? sum.mx[c] / sum.m : 0.0;

@@ -87,6 +87,7 @@ ef_status ef_system_create(const ef_model *m, ef_system **out, ef_ctx *ctx)
     ctx->info_n_eq = sys->dofs->n_eq;
     ctx->info_nnz_k = ef_sparse_nnz(sys->asmb->A);
     ctx->info_nnz_l = ef_chol_factor_nnz(sys->L);
+    ctx->info_ordering = ef_chol_ordering(sys->L);
     *out = sys;
     return EF_OK;
 fail:

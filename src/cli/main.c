@@ -214,6 +214,7 @@ static void print_timings(const ef_ctx *ctx)
     fprintf(stderr, "size   %-24s %10lld\n", "equations", (long long)ctx->info_n_eq);
     fprintf(stderr, "size   %-24s %10lld\n", "nnz-K", (long long)ctx->info_nnz_k);
     fprintf(stderr, "size   %-24s %10.0f\n", "nnz-factor", ctx->info_nnz_l);
+    fprintf(stderr, "size   %-24s %10s\n", "ordering", ctx->info_ordering ? ctx->info_ordering : "-");
     fprintf(stderr, "memory %-24s %10.1f MiB\n", "peak", (double)ef_peak_rss() / 1048576.0);
 }
 
