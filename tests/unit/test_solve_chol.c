@@ -126,12 +126,70 @@ static void test_solve_chol_solve_restores_blas_threads(void **state)
     ef_ctx_free(&ctx);
 }
 
+/* A chain of 40 nodes with 6 equations each, full 6x6 blocks on and next to the block
+ * diagonal (what a line of frame elements assembles), the nodes numbered from the middle
+ * outwards so that the natural order would fill. The equations of a node have identical
+ * rows, so they are ordered as one node; a path graph has an elimination order without
+ * fill (eliminate an end node, repeat; minimum degree finds it: common knowledge, e.g.
+ * George & Liu, Computer Solution of Large Sparse Positive Definite Systems, 1981, from
+ * memory), so L holds exactly the lower blocks: 40 x 21 + 39 x 36 entries. The solve of
+ * this diagonally dominant system is checked against the matrix. */
+#define NODES 40
+static void test_solve_chol_node_chain_is_ordered_without_fill(void **state)
+{
+    (void)state;
+    ef_ctx *ctx = NULL;
+    assert_int_equal(ef_ctx_create(&ctx), EF_OK);
+    ef_index pos[NODES], n = 6 * NODES;
+    for (int k = 0; k < NODES; k++)            /* chain position k -> node number */
+        pos[k] = k % 2 ? NODES / 2 + (k + 1) / 2 - 1 : NODES / 2 - 1 - k / 2;
+    ef_index np = 0, cap = NODES * 6 * 12;
+    ef_index *row = malloc((size_t)cap * sizeof *row), *col = malloc((size_t)cap * sizeof *col);
+    assert_true(row && col);
+    for (int k = 0; k < NODES; k++)
+        for (int a = 0; a < 6; a++)
+            for (int b = 0; b < 6; b++) {
+                ef_index i = 6 * pos[k] + a, j = 6 * pos[k] + b;
+                if (i < j) { row[np] = i; col[np] = j; np++; }
+                if (k + 1 < NODES) {
+                    ef_index j2 = 6 * pos[k + 1] + b;
+                    row[np] = i < j2 ? i : j2;
+                    col[np] = i < j2 ? j2 : i;
+                    np++;
+                }
+            }
+    ef_sparse *A = NULL;
+    assert_int_equal(ef_sparse_create_pattern(n, np, row, col, &A, ctx), EF_OK);
+    assert_int_equal(ef_sparse_nnz(A), NODES * 21 + (NODES - 1) * 36);
+    ef_factor *L = NULL;
+    assert_int_equal(ef_chol_analyze(A, &L, ctx), EF_OK);
+    assert_true(ef_chol_factor_nnz(L) == (double)(NODES * 21 + (NODES - 1) * 36));
+    ef_index nnz = ef_sparse_nnz(A);
+    double *v = malloc((size_t)nnz * sizeof *v), *b = malloc((size_t)n * sizeof *b);
+    double *x = malloc((size_t)n * sizeof *x), *r = malloc((size_t)n * sizeof *r);
+    assert_true(v && b && x && r);
+    const ef_index *Ap = ef_sparse_colptr(A), *Ai = ef_sparse_rowind(A);
+    for (ef_index j = 0; j < n; j++)
+        for (ef_index p = Ap[j]; p < Ap[j + 1]; p++)
+            v[p] = Ai[p] == j ? 100.0 : -1.0 / (1.0 + (double)((Ai[p] + j) % 5));
+    assert_int_equal(ef_chol_factorize(A, v, L, NULL, ctx), EF_OK);
+    for (ef_index i = 0; i < n; i++) b[i] = 1.0 + (double)(i % 3);
+    assert_int_equal(ef_chol_solve(L, 1, b, x, ctx), EF_OK);
+    ef_sparse_symv(A, v, x, r);
+    for (ef_index i = 0; i < n; i++) assert_abs_close(r[i], b[i], 1e-12 * 100.0);
+    free(v); free(b); free(x); free(r); free(row); free(col);
+    ef_factor_free(&L, ctx);
+    ef_sparse_free(&A, ctx);
+    ef_ctx_free(&ctx);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_solve_chol_packed_product_equals_dense_product),
         cmocka_unit_test(test_solve_chol_packed_zero_matrix),
         cmocka_unit_test(test_solve_chol_solve_restores_blas_threads),
+        cmocka_unit_test(test_solve_chol_node_chain_is_ordered_without_fill),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }
