@@ -7,30 +7,15 @@ tests/models/good/floor-grid-walking.yaml (our floor bay). Expected values here 
 properties of the program's own contract (options override the file), not engineering
 check values; those are in the cmocka tests.
 """
-import os
 import re
 import shutil
-import subprocess
 from pathlib import Path
 
 import pytest
 
-ROOT = Path(__file__).resolve().parents[2]
+from efrun import ROOT, ef_bin, run  # noqa: E402  (shared helpers)
 PLATFORM = ROOT / "examples" / "platform.yaml"
 FLOOR = ROOT / "tests" / "models" / "good" / "floor-grid-walking.yaml"
-
-
-def ef_bin():
-    b = Path(os.environ.get("EF_BIN", "bin/eigenframe"))
-    if not b.is_absolute():
-        b = (Path.cwd() / b) if (Path.cwd() / b).exists() else ROOT / b
-    if not b.exists():
-        pytest.skip(f"no eigenframe binary at {b} (build it first)")
-    return str(b)
-
-
-def run(*args, cwd=None):
-    return subprocess.run([ef_bin(), *args], cwd=cwd, capture_output=True, text=True, timeout=300)
 
 
 @pytest.fixture()

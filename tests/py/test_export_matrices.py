@@ -11,7 +11,6 @@ exported M against the participating mass in the results file.
 """
 import csv
 import math
-import os
 import subprocess
 import sys
 from pathlib import Path
@@ -22,17 +21,8 @@ import pytest
 import scipy.io
 import scipy.linalg
 
-ROOT = Path(__file__).resolve().parents[2]
+from efrun import ROOT, ef_bin, run  # noqa: E402  (shared helpers)
 GEN = ROOT / "scripts" / "genmodel.py"
-
-
-def ef_bin():
-    b = Path(os.environ.get("EF_BIN", "bin/eigenframe"))
-    if not b.is_absolute():
-        b = (Path.cwd() / b) if (Path.cwd() / b).exists() else ROOT / b
-    if not b.exists():
-        pytest.skip(f"no eigenframe binary at {b} (build it first)")
-    return str(b)
 
 
 def export(tmp, kind, *args):

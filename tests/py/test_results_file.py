@@ -7,10 +7,8 @@ the mass normalisation recomputed from the model's masses, the static sign conve
 and that `show` reprints the report and `plot` writes well-formed SVG.
 """
 import math
-import os
 import re
 import shutil
-import subprocess
 import xml.etree.ElementTree as ET
 from pathlib import Path
 
@@ -19,22 +17,9 @@ import numpy as np
 import pytest
 import yaml
 
-ROOT = Path(__file__).resolve().parents[2]
+from efrun import ROOT, ef_bin, run  # noqa: E402  (shared helpers)
 MODEL = ROOT / "tests" / "models" / "good" / "portal_two_bay_masses.yaml"
 SVG = "{http://www.w3.org/2000/svg}"
-
-
-def ef_bin():
-    b = Path(os.environ.get("EF_BIN", "bin/eigenframe"))
-    if not b.is_absolute():
-        b = (Path.cwd() / b) if (Path.cwd() / b).exists() else ROOT / b
-    if not b.exists():
-        pytest.skip(f"no eigenframe binary at {b} (build it first)")
-    return str(b)
-
-
-def run(*args, cwd=None):
-    return subprocess.run([ef_bin(), *args], cwd=cwd, capture_output=True, text=True, timeout=300)
 
 
 def run_model(tmp, model_path, text=None):

@@ -9,10 +9,8 @@ follow R on the scale documented in src/write_svg.c, a legend with the smallest 
 and the limit, the title block, the views, and exit status 2 for a file without /walking.
 """
 import math
-import os
 import re
 import shutil
-import subprocess
 import xml.etree.ElementTree as ET
 from pathlib import Path
 
@@ -21,25 +19,12 @@ import numpy as np
 import pytest
 import yaml
 
-ROOT = Path(__file__).resolve().parents[2]
+from efrun import ROOT, ef_bin, run  # noqa: E402  (shared helpers)
 MODEL = ROOT / "tests" / "models" / "good" / "floor-grid-walking.yaml"
 SVG = "{http://www.w3.org/2000/svg}"
 
 # End stops of the R colour scale, as documented in src/write_svg.c (scale_stops).
 SCALE_LOW, SCALE_HIGH = "#f6f0b8", "#5a1d4c"
-
-
-def ef_bin():
-    b = Path(os.environ.get("EF_BIN", "bin/eigenframe"))
-    if not b.is_absolute():
-        b = (Path.cwd() / b) if (Path.cwd() / b).exists() else ROOT / b
-    if not b.exists():
-        pytest.skip(f"no eigenframe binary at {b} (build it first)")
-    return str(b)
-
-
-def run(*args, cwd=None):
-    return subprocess.run([ef_bin(), *args], cwd=cwd, capture_output=True, text=True, timeout=300)
 
 
 def plot(h5, out, *extra):
