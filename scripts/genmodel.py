@@ -64,17 +64,23 @@ def building_storeys_for(target):
     return max(2, min(60, int(round((target / 30.0) ** (1.0 / 3.0)))))
 
 
-def choose_building(target, ns, div, aspect):
+def choose_bays(dof_of, target, aspect, ny_max):
+    """Bay counts (nx, ny), nx ~ aspect * ny, whose DOF count dof_of(nx, ny) is nearest
+    the target."""
     best = None
-    for ny in range(1, 400):
+    for ny in range(1, ny_max):
         nx = max(1, int(round(ny * aspect)))
-        dof = building_counts(nx, ny, ns, div)[0]
+        dof = dof_of(nx, ny)
         err = abs(dof - target)
         if best is None or err < best[0]:
             best = (err, nx, ny)
         if dof > target:
             break
     return best[1], best[2]
+
+
+def choose_building(target, ns, div, aspect):
+    return choose_bays(lambda nx, ny: building_counts(nx, ny, ns, div)[0], target, aspect, 400)
 
 
 def column_box(storeys_above):
@@ -220,16 +226,7 @@ def platform_braced(nx, ny, every):
 
 
 def choose_platform(target, div, every, aspect):
-    best = None
-    for ny in range(1, 2000):
-        nx = max(1, int(round(ny * aspect)))
-        dof = platform_counts(nx, ny, div, every)[0]
-        err = abs(dof - target)
-        if best is None or err < best[0]:
-            best = (err, nx, ny)
-        if dof > target:
-            break
-    return best[1], best[2]
+    return choose_bays(lambda nx, ny: platform_counts(nx, ny, div, every)[0], target, aspect, 2000)
 
 
 def gen_platform(a):
